@@ -1,0 +1,31 @@
+#![doc = include_str!("../README.md")]
+#![no_std]
+#![forbid(unsafe_code)]
+#![deny(missing_docs)]
+#![warn(
+    clippy::float_cmp_const,
+    clippy::indexing_slicing,
+    clippy::unwrap_used,
+    clippy::expect_used,
+    clippy::panic,
+    clippy::missing_errors_doc
+)]
+#![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
+
+//! # Tour, in the order the data flows
+//!
+//! 1. [`units`]: typed quantities ([`Volts`], [`Amps`], [`Ohms`], [`Henries`], [`Seconds`],
+//!    [`Joules`], [`Watts`], [`Farads`], [`Coulombs`], a [`Temperature`] point and a
+//!    [`TempDelta`] interval) and [`physics`] constants.
+//! 2. Device models: [`diode`] (forward drop over temperature, its inverse, fitting).
+//! 3. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+
+pub mod diode;
+pub mod error;
+mod math;
+pub mod physics;
+mod solve;
+pub mod units;
+
+pub use error::{Error, Reason};
+pub use units::{Amps, Coulombs, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts, Watts};
