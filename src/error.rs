@@ -138,13 +138,28 @@ mod tests {
 
     #[test]
     fn guards_name_the_input_and_reason() {
-        assert_eq!(finite("x", f32::INFINITY), Err(Error::new("x", Reason::NotFinite)));
+        assert_eq!(
+            finite("x", f32::INFINITY),
+            Err(Error::new("x", Reason::NotFinite))
+        );
         assert_eq!(finite("x", 2e12), Err(Error::new("x", Reason::TooLarge)));
         assert_eq!(finite("x", 1e-35), Err(Error::new("x", Reason::TooSmall)));
-        assert_eq!(positive("y", 0.0), Err(Error::new("y", Reason::NotPositive)));
-        assert_eq!(positive("y", f32::NAN), Err(Error::new("y", Reason::NotFinite)));
-        assert_eq!(non_negative("z", -1e-30), Err(Error::new("z", Reason::Negative)));
+        assert_eq!(
+            positive("y", 0.0),
+            Err(Error::new("y", Reason::NotPositive))
+        );
+        assert_eq!(
+            positive("y", f32::NAN),
+            Err(Error::new("y", Reason::NotFinite))
+        );
+        assert_eq!(
+            non_negative("z", -1e-30),
+            Err(Error::new("z", Reason::Negative))
+        );
         assert_eq!(non_negative("z", 0.0), Ok(0.0));
-        assert_eq!(result("r", f32::NEG_INFINITY), Err(Error::new("r", Reason::Overflow)));
+        assert_eq!(
+            result("r", f32::NEG_INFINITY),
+            Err(Error::new("r", Reason::Overflow))
+        );
     }
 }

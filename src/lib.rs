@@ -10,6 +10,8 @@
     clippy::panic,
     clippy::missing_errors_doc
 )]
+// Guards are written `if !(x > 0.0)` on purpose: that form is also true for NaN.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
 #![cfg_attr(test, allow(clippy::unwrap_used, clippy::indexing_slicing))]
 
 //! # Tour, in the order the data flows
@@ -28,4 +30,6 @@ mod solve;
 pub mod units;
 
 pub use error::{Error, Reason};
-pub use units::{Amps, Coulombs, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts, Watts};
+pub use units::{
+    Amps, Coulombs, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts, Watts,
+};

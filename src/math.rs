@@ -71,9 +71,16 @@ mod tests {
         // (the identity ln(1 + e^x) = x + ln(1 + e^−x) is exact; f64 keeps 1e-16 relative).
         for &x in &[-80.0f32, -20.0, -1.0, 0.0, 0.5, 3.0, 20.0, 80.0] {
             let x64 = x as f64;
-            let r = if x64 > 0.0 { x64 + (-x64).exp().ln_1p() } else { x64.exp().ln_1p() };
+            let r = if x64 > 0.0 {
+                x64 + (-x64).exp().ln_1p()
+            } else {
+                x64.exp().ln_1p()
+            };
             let got = ln_1p_exp(x) as f64;
-            assert!((got - r).abs() <= 1e-6 * r.abs().max(1e-30), "x={x}: {got} vs {r}");
+            assert!(
+                (got - r).abs() <= 1e-6 * r.abs().max(1e-30),
+                "x={x}: {got} vs {r}"
+            );
         }
     }
 }

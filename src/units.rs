@@ -81,12 +81,25 @@ macro_rules! quantity {
         }
 
         impl fmt::Display for $name {
+            /// The value and its unit symbol; very small or large magnitudes in exponent form.
             fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-                fmt::Display::fmt(&self.0, f)?;
+                write_value(f, self.0)?;
                 f.write_str(concat!(" ", $unit))
             }
         }
     };
+}
+
+/// Writes `x` plainly in 1e-3 ≤ |x| < 1e6 (or 0), in exponent form elsewhere, honouring the
+/// caller's precision.
+fn write_value(f: &mut fmt::Formatter<'_>, x: f32) -> fmt::Result {
+    let plain = x == 0.0 || (1e-3..1e6).contains(&x.abs());
+    match (plain, f.precision()) {
+        (true, Some(p)) => write!(f, "{x:.p$}"),
+        (true, None) => write!(f, "{x}"),
+        (false, Some(p)) => write!(f, "{x:.p$e}"),
+        (false, None) => write!(f, "{x:e}"),
+    }
 }
 
 /// Defines `A * B -> C` in both orders.
@@ -257,7 +270,9 @@ impl Temperature {
     /// As [`Temperature::from_kelvin`], with input name `"temperature (°C)"`.
     pub const fn from_celsius(c: f32) -> Result<Self, Error> {
         match error::finite("temperature (°C)", c) {
-            Ok(c) if c + ZERO_CELSIUS_IN_KELVIN > 0.0 => Ok(Temperature(c + ZERO_CELSIUS_IN_KELVIN)),
+            Ok(c) if c + ZERO_CELSIUS_IN_KELVIN > 0.0 => {
+                Ok(Temperature(c + ZERO_CELSIUS_IN_KELVIN))
+            }
             Ok(_) => Err(Error::new("temperature (°C)", Reason::BelowAbsoluteZero)),
             Err(e) => Err(e),
         }
@@ -344,7 +359,10 @@ mod tests {
         assert_eq!(Ohms::new(-1.0).unwrap_err().reason, Reason::Negative);
         assert_eq!(Henries::new(0.0).unwrap_err().reason, Reason::NotPositive);
         assert_eq!(Seconds::new(-0.1).unwrap_err().reason, Reason::Negative);
-        assert_eq!(Farads::new(f32::INFINITY).unwrap_err().reason, Reason::NotFinite);
+        assert_eq!(
+            Farads::new(f32::INFINITY).unwrap_err().reason,
+            Reason::NotFinite
+        );
         assert_eq!(Volts::new(1e13).unwrap_err().reason, Reason::TooLarge);
         assert_eq!(Amps::new(1e-35).unwrap_err().reason, Reason::TooSmall);
         assert!(Volts::new(-24.0).is_ok());
@@ -353,7 +371,23 @@ mod tests {
             Temperature::from_celsius(-273.15).unwrap_err().reason,
             Reason::BelowAbsoluteZero
         );
-        assert_eq!(Temperature::from_kelvin(0.0).unwrap_err().reason, Reason::BelowAbsoluteZero);
+        assert_eq!(
+            Temperature::from_kelvin(0.0).unwrap_err().reason,
+            Reason::BelowAbsoluteZero
+        );
+    }
+
+    #[test]
+    fn display_carries_the_unit() {
+        extern crate std;
+        use std::format;
+        assert_eq!(format!("{}", Volts::new(24.0).unwrap()), "24 V");
+        assert_eq!(format!("{:.2}", Amps::new(0.4286).unwrap()), "0.43 A");
+        assert_eq!(format!("{}", Amps::new(2e-9).unwrap()), "2e-9 A");
+        assert_eq!(
+            format!("{}", Temperature::from_celsius(25.0).unwrap()),
+            "25 °C"
+        );
     }
 
     #[test]
@@ -369,7 +403,14 @@ mod tests {
         assert_eq!((q * Volts::new(4.0).unwrap()).value(), 24.0);
         let tau = Ohms::new(1e3).unwrap() * Farads::new(1e-6).unwrap();
         assert!((tau.value() - 1e-3).abs() < 1e-9);
-        assert_eq!(Volts::new(24.0).unwrap().over(Ohms::new(0.0).unwrap()).unwrap_err().input, "R");
+        assert_eq!(
+            Volts::new(24.0)
+                .unwrap()
+                .over(Ohms::new(0.0).unwrap())
+                .unwrap_err()
+                .input,
+            "R"
+        );
     }
 
     #[test]
@@ -379,7 +420,9 @@ mod tests {
         let p = (r * big) * big;
         assert!(p.value().is_finite());
         let l = Henries::new(MIN_MAGNITUDE).unwrap();
-        let slow = Henries::new(MAX_MAGNITUDE).unwrap().time_constant(Ohms::new(MIN_MAGNITUDE).unwrap());
+        let slow = Henries::new(MAX_MAGNITUDE)
+            .unwrap()
+            .time_constant(Ohms::new(MIN_MAGNITUDE).unwrap());
         assert_eq!(slow.unwrap_err().reason, Reason::Overflow);
         assert!(l.stored_energy(big).value().is_finite());
     }

@@ -25,7 +25,9 @@ fn ln_is64(d: &DiodeParams, t_k: f64) -> f64 {
     let n = d.n() as f64;
     let tnom = d.tnom().kelvin() as f64;
     let r = t_k / tnom;
-    (d.is().value() as f64).ln() + (d.xti() as f64 / n) * r.ln() + (r - 1.0) * d.eg_ev() as f64 / (n * vt64(t_k))
+    (d.is().value() as f64).ln()
+        + (d.xti() as f64 / n) * r.ln()
+        + (r - 1.0) * d.eg_ev() as f64 / (n * vt64(t_k))
 }
 
 /// Forward drop from the Shockley equation with RS (SPICE2), f64.
@@ -46,7 +48,15 @@ fn a(x: f32) -> Amps {
 fn sane_diodes() -> Vec<DiodeParams> {
     let tn = Temperature::from_celsius(27.0).unwrap();
     let mk = |is: f32, n: f32, rs: f32, eg: f32, xti: f32| {
-        DiodeParams::new(Amps::new(is).unwrap(), n, Ohms::new(rs).unwrap(), eg, xti, tn).unwrap()
+        DiodeParams::new(
+            Amps::new(is).unwrap(),
+            n,
+            Ohms::new(rs).unwrap(),
+            eg,
+            xti,
+            tn,
+        )
+        .unwrap()
     };
     vec![
         DiodeParams::SILICON,
@@ -63,12 +73,19 @@ fn sane_diodes() -> Vec<DiodeParams> {
 fn thermal_voltage_matches_codata() {
     // Source: SI 2019 exact k and q (CODATA 2018). Vt(300 K) = 25.852 mV.
     for &tk in &[233.15f32, 273.15, 300.0, 423.15] {
-        let got = kickguard::physics::thermal_voltage(Temperature::from_kelvin(tk).unwrap()).value() as f64;
+        let got = kickguard::physics::thermal_voltage(Temperature::from_kelvin(tk).unwrap()).value()
+            as f64;
         let want = vt64(tk as f64);
-        assert!(((got - want) / want).abs() < 2e-7, "T={tk}: {got} vs {want}");
+        assert!(
+            ((got - want) / want).abs() < 2e-7,
+            "T={tk}: {got} vs {want}"
+        );
     }
     let want_300 = vt64(300.0);
-    assert!((want_300 - 0.025852).abs() < 1e-6, "reference itself: {want_300}");
+    assert!(
+        (want_300 - 0.025852).abs() < 1e-6,
+        "reference itself: {want_300}"
+    );
 }
 
 #[test]
@@ -80,7 +97,10 @@ fn saturation_current_follows_spice2_temperature_law() {
             let got = d.saturation_current(t(c as f32)).unwrap().value() as f64;
             let want = ln_is64(&d, tk).exp();
             let rel = (got - want).abs() / want;
-            assert!(rel < 2e-5, "{d:?} at {c} °C: {got:e} vs {want:e} (rel {rel:e})");
+            assert!(
+                rel < 2e-5,
+                "{d:?} at {c} °C: {got:e} vs {want:e} (rel {rel:e})"
+            );
         }
     }
 }
@@ -115,7 +135,10 @@ fn silicon_drop_is_about_0v6_to_0v7_at_milliamps() {
         assert!((0.58..=0.72).contains(&v), "I={i}: {v} V");
     }
     // Common practice: a Schottky drops roughly half of that, 0.2–0.45 V.
-    let v = DiodeParams::SCHOTTKY.forward_drop(a(5e-3), t(25.0)).unwrap().value();
+    let v = DiodeParams::SCHOTTKY
+        .forward_drop(a(5e-3), t(25.0))
+        .unwrap()
+        .value();
     assert!((0.2..=0.45).contains(&v), "Schottky {v} V");
 }
 
@@ -128,14 +151,21 @@ fn silicon_tempco_is_about_minus_2mv_per_kelvin_near_0v6() {
     // The analytic derivative agrees with a central difference of the f64 law (Nagel 1975).
     let (t1, t2) = (298.15 - 0.5, 298.15 + 0.5);
     let fd = v64(&d, 1e-3, t2) - v64(&d, 1e-3, t1);
-    assert!((tc as f64 - fd).abs() < 2e-6, "{tc} vs finite difference {fd}");
+    assert!(
+        (tc as f64 - fd).abs() < 2e-6,
+        "{tc} vs finite difference {fd}"
+    );
 }
 
 #[test]
 fn five_volts_through_a_silicon_diode_leaves_about_4v3() {
     // Common practice: 5 V through a silicon diode into a 1 kΩ load gives about 4.3 V.
     let i = DiodeParams::SILICON
-        .series_current(Volts::new(5.0).unwrap(), Ohms::new(1000.0).unwrap(), t(25.0))
+        .series_current(
+            Volts::new(5.0).unwrap(),
+            Ohms::new(1000.0).unwrap(),
+            t(25.0),
+        )
         .unwrap();
     let v_load = i.value() * 1000.0;
     assert!((v_load - 4.3).abs() < 0.1, "{v_load} V");
@@ -150,7 +180,10 @@ fn reverse_leakage_roughly_doubles_every_ten_kelvin() {
         let i1 = d.reverse_leakage(vr, t(25.0)).unwrap().value();
         let i2 = d.reverse_leakage(vr, t(35.0)).unwrap().value();
         let doubling_k = 10.0 / (i2 / i1).log2();
-        assert!((5.0..=15.0).contains(&doubling_k), "{d:?}: doubles every {doubling_k} K");
+        assert!(
+            (5.0..=15.0).contains(&doubling_k),
+            "{d:?}: doubles every {doubling_k} K"
+        );
     }
 }
 
@@ -170,7 +203,11 @@ fn series_current_matches_independent_brent_solve() {
                     let f = |i: f64| i * rt + nvt * (i / is_t).ln_1p() - v as f64;
                     // Upper bounds on the root: the resistor takes all of V, or the diode does.
                     let diode_bound = is_t * (v as f64 / nvt).exp_m1();
-                    let hi = if rt > 0.0 { (v as f64 / rt).min(diode_bound) } else { diode_bound };
+                    let hi = if rt > 0.0 {
+                        (v as f64 / rt).min(diode_bound)
+                    } else {
+                        diode_bound
+                    };
                     if !hi.is_finite() || hi > 1e12 {
                         // No resistance and a large voltage: the exact current overflows f32.
                         assert_eq!(got.unwrap_err().reason, Reason::Overflow);
@@ -180,9 +217,13 @@ fn series_current_matches_independent_brent_solve() {
                         // Shockley equation solved for I in closed form (Nagel 1975).
                         diode_bound
                     } else {
-                        let mut conv = roots::SimpleConvergency { eps: (hi * 1e-13).max(1e-20), max_iter: 1000 };
-                        roots::find_root_brent(0.0, hi * (1.0 + 1e-9), f, &mut conv)
-                            .unwrap_or_else(|e| panic!("reference failed {e:?}: V={v} R={r} T={c} hi={hi:e} {d:?}"))
+                        let mut conv = roots::SimpleConvergency {
+                            eps: (hi * 1e-13).max(1e-20),
+                            max_iter: 1000,
+                        };
+                        roots::find_root_brent(0.0, hi * (1.0 + 1e-9), f, &mut conv).unwrap_or_else(
+                            |e| panic!("reference failed {e:?}: V={v} R={r} T={c} hi={hi:e} {d:?}"),
+                        )
                     };
                     let got = got.unwrap().value() as f64;
                     let rel = (got - want).abs() / want;
@@ -200,10 +241,21 @@ fn series_current_sign_and_zero() {
     // Ohm's law limit: a reverse source gives at most −IS(T) (Shockley equation, Nagel 1975).
     let d = DiodeParams::SILICON;
     let r = Ohms::new(1e3).unwrap();
-    assert_eq!(d.series_current(Volts::new(0.0).unwrap(), r, t(25.0)).unwrap().value(), 0.0);
-    let rev = d.series_current(Volts::new(-5.0).unwrap(), r, t(25.0)).unwrap().value() as f64;
+    assert_eq!(
+        d.series_current(Volts::new(0.0).unwrap(), r, t(25.0))
+            .unwrap()
+            .value(),
+        0.0
+    );
+    let rev = d
+        .series_current(Volts::new(-5.0).unwrap(), r, t(25.0))
+        .unwrap()
+        .value() as f64;
     let is_t = ln_is64(&d, 298.15).exp();
-    assert!(rev < 0.0 && (rev + is_t).abs() < 1e-3 * is_t, "{rev:e} vs −{is_t:e}");
+    assert!(
+        rev < 0.0 && (rev + is_t).abs() < 1e-3 * is_t,
+        "{rev:e} vs −{is_t:e}"
+    );
 }
 
 #[test]
@@ -214,8 +266,14 @@ fn junction_temperature_inverts_the_f64_law() {
         for &i in &[1e-4f32, 1e-3, 1e-2, 0.1] {
             for c in (-40..=150).step_by(10) {
                 let v = v64(&d, i as f64, c as f64 + 273.15) as f32;
-                let got = d.junction_temperature(a(i), Volts::new(v).unwrap()).unwrap().celsius();
-                assert!((got - c as f32).abs() < 0.05, "{d:?} I={i} T={c}: got {got}");
+                let got = d
+                    .junction_temperature(a(i), Volts::new(v).unwrap())
+                    .unwrap()
+                    .celsius();
+                assert!(
+                    (got - c as f32).abs() < 0.05,
+                    "{d:?} I={i} T={c}: got {got}"
+                );
             }
         }
     }
@@ -224,10 +282,20 @@ fn junction_temperature_inverts_the_f64_law() {
 #[test]
 fn junction_temperature_rejects_drops_outside_range() {
     let d = DiodeParams::SILICON;
-    let e = d.junction_temperature(a(1e-3), Volts::new(5.0).unwrap()).unwrap_err();
-    assert_eq!((e.input, e.reason), ("measured drop", Reason::OutsideValidatedRange));
-    let e = d.junction_temperature(a(-1e-3), Volts::new(0.6).unwrap()).unwrap_err();
-    assert_eq!((e.input, e.reason), ("forward current", Reason::NotPositive));
+    let e = d
+        .junction_temperature(a(1e-3), Volts::new(5.0).unwrap())
+        .unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("measured drop", Reason::OutsideValidatedRange)
+    );
+    let e = d
+        .junction_temperature(a(-1e-3), Volts::new(0.6).unwrap())
+        .unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("forward current", Reason::NotPositive)
+    );
 }
 
 /// Points generated from the f64 law (Nagel 1975) at a temperature.
@@ -243,25 +311,60 @@ fn fits_recover_the_parameters_that_made_the_points() {
     // Source: points from the f64 SPICE2 law (Nagel 1975); the fit must recover IS, N, RS.
     let tn = t(25.0);
     for truth in sane_diodes() {
-        let truth = DiodeParams::new(truth.is(), truth.n(), truth.rs(), truth.eg_ev(), truth.xti(), tn).unwrap();
+        let truth = DiodeParams::new(
+            truth.is(),
+            truth.n(),
+            truth.rs(),
+            truth.eg_ev(),
+            truth.xti(),
+            tn,
+        )
+        .unwrap();
         let p3 = points64(&truth, &[1e-3, 0.1, 3.0], 25.0);
         let f3 = fit_three_points([p3[0], p3[1], p3[2]], tn, truth.eg_ev(), truth.xti()).unwrap();
-        assert!((f3.n() - truth.n()).abs() < 2e-3 * truth.n(), "{truth:?} → N {}", f3.n());
-        assert!((f3.rs().value() - truth.rs().value()).abs() < 2e-3, "{truth:?} → RS {}", f3.rs());
+        assert!(
+            (f3.n() - truth.n()).abs() < 2e-3 * truth.n(),
+            "{truth:?} → N {}",
+            f3.n()
+        );
+        assert!(
+            (f3.rs().value() - truth.rs().value()).abs() < 2e-3,
+            "{truth:?} → RS {}",
+            f3.rs()
+        );
         let is_ratio = f3.is().value() / truth.is().value();
-        assert!((is_ratio - 1.0).abs() < 0.05, "{truth:?} → IS ratio {is_ratio}");
+        assert!(
+            (is_ratio - 1.0).abs() < 0.05,
+            "{truth:?} → IS ratio {is_ratio}"
+        );
 
         let p2 = points64(&truth, &[1e-4, 1e-2], 25.0);
-        let f2 = fit_two_points([p2[0], p2[1]], tn, truth.rs(), truth.eg_ev(), truth.xti()).unwrap();
-        assert!((f2.n() - truth.n()).abs() < 2e-3 * truth.n(), "{truth:?} → N {}", f2.n());
+        let f2 =
+            fit_two_points([p2[0], p2[1]], tn, truth.rs(), truth.eg_ev(), truth.xti()).unwrap();
+        assert!(
+            (f2.n() - truth.n()).abs() < 2e-3 * truth.n(),
+            "{truth:?} → N {}",
+            f2.n()
+        );
 
         // EG from a second-temperature point and from the tempco both recover the truth.
         let hot = points64(&truth, &[1e-2], 100.0)[0];
-        let fe = truth.with_rs(truth.rs()).with_eg_from_point(hot, t(100.0)).unwrap();
-        assert!((fe.eg_ev() - truth.eg_ev()).abs() < 0.01, "{truth:?} → EG {}", fe.eg_ev());
+        let fe = truth
+            .with_rs(truth.rs())
+            .with_eg_from_point(hot, t(100.0))
+            .unwrap();
+        assert!(
+            (fe.eg_ev() - truth.eg_ev()).abs() < 0.01,
+            "{truth:?} → EG {}",
+            fe.eg_ev()
+        );
         let tc = truth.forward_tempco_v_per_k(a(1e-3), tn).unwrap();
         let fe = truth.with_eg_from_tempco(a(1e-3), tc).unwrap();
-        assert!((fe.eg_ev() - truth.eg_ev()).abs() < 0.01, "{truth:?} → EG {}", fe.eg_ev());
+        assert!(
+            (fe.eg_ev() - truth.eg_ev()).abs() < 0.01,
+            "{truth:?} → EG {}",
+            fe.eg_ev()
+        );
     }
 }
 
@@ -272,7 +375,10 @@ fn fits_refuse_inconsistent_points() {
     let p = |i: f32, v: f32| DropPoint::new(i, v).unwrap();
     // Currents out of order.
     let e = fit_two_points([p(0.1, 0.8), p(0.001, 0.6)], tn, rs0, 1.11, 3.0).unwrap_err();
-    assert_eq!((e.input, e.reason), ("point current", Reason::NotIncreasing));
+    assert_eq!(
+        (e.input, e.reason),
+        ("point current", Reason::NotIncreasing)
+    );
     // A drop that falls as current rises.
     let e = fit_two_points([p(0.001, 0.7), p(0.1, 0.6)], tn, rs0, 1.11, 3.0).unwrap_err();
     assert_eq!((e.input, e.reason), ("point voltage", Reason::Inconsistent));
@@ -280,12 +386,17 @@ fn fits_refuse_inconsistent_points() {
     let e = fit_two_points([p(0.001, 0.5), p(0.01, 3.5)], tn, rs0, 1.11, 3.0).unwrap_err();
     assert_eq!(e.reason, Reason::Inconsistent);
     // Curve bending the wrong way (concave in ln I) means negative RS.
-    let e = fit_three_points([p(0.001, 0.6), p(0.1, 0.85), p(3.0, 0.9)], tn, 1.11, 3.0).unwrap_err();
+    let e =
+        fit_three_points([p(0.001, 0.6), p(0.1, 0.85), p(3.0, 0.9)], tn, 1.11, 3.0).unwrap_err();
     assert_eq!((e.input, e.reason), ("points", Reason::Inconsistent));
     // A hotter drop that is higher: EG would be negative.
-    let e = DiodeParams::SILICON.with_eg_from_point(p(1e-3, 0.7), t(80.0)).unwrap_err();
+    let e = DiodeParams::SILICON
+        .with_eg_from_point(p(1e-3, 0.7), t(80.0))
+        .unwrap_err();
     assert_eq!((e.input, e.reason), ("second point", Reason::Inconsistent));
-    let e = DiodeParams::SILICON.with_eg_from_point(p(1e-3, 0.6), DiodeParams::SILICON.tnom()).unwrap_err();
+    let e = DiodeParams::SILICON
+        .with_eg_from_point(p(1e-3, 0.6), DiodeParams::SILICON.tnom())
+        .unwrap_err();
     assert_eq!(e.input, "second temperature");
 }
 
@@ -293,16 +404,35 @@ fn fits_refuse_inconsistent_points() {
 fn bad_inputs_name_themselves() {
     let d = DiodeParams::SILICON;
     let e = d.forward_drop(a(0.0), t(25.0)).unwrap_err();
-    assert_eq!((e.input, e.reason), ("forward current", Reason::NotPositive));
+    assert_eq!(
+        (e.input, e.reason),
+        ("forward current", Reason::NotPositive)
+    );
     let e = d.forward_drop(a(-1.0), t(25.0)).unwrap_err();
     assert_eq!(e.input, "forward current");
-    let e = d.forward_drop(a(1.0), Temperature::from_kelvin(10.0).unwrap()).unwrap_err();
-    assert_eq!((e.input, e.reason), ("temperature", Reason::OutsideValidatedRange));
-    let e = d.reverse_leakage(Volts::new(-1.0).unwrap(), t(25.0)).unwrap_err();
+    let e = d
+        .forward_drop(a(1.0), Temperature::from_kelvin(10.0).unwrap())
+        .unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("temperature", Reason::OutsideValidatedRange)
+    );
+    let e = d
+        .reverse_leakage(Volts::new(-1.0).unwrap(), t(25.0))
+        .unwrap_err();
     assert_eq!((e.input, e.reason), ("reverse voltage", Reason::Negative));
     assert_eq!(Amps::new(f32::NAN).unwrap_err().reason, Reason::NotFinite);
-    assert_eq!(Temperature::from_celsius(-300.0).unwrap_err().reason, Reason::BelowAbsoluteZero);
-    assert_eq!(d.with_eg_from_tempco(a(1e-3), f32::NAN).unwrap_err().input, "tempco");
+    assert_eq!(
+        Temperature::from_celsius(-300.0).unwrap_err().reason,
+        Reason::BelowAbsoluteZero
+    );
+    assert_eq!(
+        d.with_eg_from_tempco(a(1e-3), f32::NAN).unwrap_err().input,
+        "tempco"
+    );
     assert_eq!(DropPoint::new(0.0, 0.6).unwrap_err().input, "point current");
-    assert_eq!(DropPoint::new(1e-3, -0.6).unwrap_err().input, "point voltage");
+    assert_eq!(
+        DropPoint::new(1e-3, -0.6).unwrap_err().input,
+        "point voltage"
+    );
 }

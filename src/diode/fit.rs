@@ -289,7 +289,8 @@ impl DiodeParams {
         let x = vj / nvt2;
         let ln_is2 = math::ln(i) - (x + math::ln_1p(-math::exp(-x)));
         let ratio = t2_k / self.tnom_k;
-        let eg = (ln_is2 - self.ln_is - (self.xti / self.n) * math::ln(ratio)) * nvt2 / (ratio - 1.0);
+        let eg =
+            (ln_is2 - self.ln_is - (self.xti / self.n) * math::ln(ratio)) * nvt2 / (ratio - 1.0);
         self.with_fitted_eg(eg, "second point")
     }
 

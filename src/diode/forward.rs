@@ -64,7 +64,7 @@ impl DiodeParams {
     ///
     /// Valid for I > 0 and 173.15 K ≤ T ≤ 523.15 K. Accuracy: within 1 mV of an f64 evaluation of
     /// the same law from −40 to 150 °C and 1 µA to 10 A for the presets and for parameters in
-    /// the ranges of [`DiodeParams::new`] (measured: `cargo run --release --example accuracy`).
+    /// the ranges of [`DiodeParams::new`] (measured: `cargo bench --bench diode_accuracy`).
     ///
     /// # Errors
     /// `i` ≤ 0 → [`Reason::NotPositive`] on `"forward current"`; `t` out of range →
@@ -114,7 +114,10 @@ impl DiodeParams {
         let frac = math::logistic(a);
         let vt = vt_at(t_k);
         let vj = self.n * vt * math::ln_1p_exp(a);
-        error::result("forward tempco", (vj - frac * (self.xti * vt + self.eg_ev)) / t_k)
+        error::result(
+            "forward tempco",
+            (vj - frac * (self.xti * vt + self.eg_ev)) / t_k,
+        )
     }
 
     /// Reverse current at reverse voltage `v_r` (> 0 blocks), in amperes (a positive number):

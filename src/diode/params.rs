@@ -49,7 +49,15 @@ impl DiodeParams {
     pub const SCHOTTKY: DiodeParams = DiodeParams::preset(1.0e-6, -13.815_51, 1.1, 0.05, 0.69, 2.0);
 
     const fn preset(is_a: f32, ln_is: f32, n: f32, rs_ohm: f32, eg_ev: f32, xti: f32) -> Self {
-        DiodeParams { is_a, ln_is, n, rs_ohm, eg_ev, xti, tnom_k: 300.15 }
+        DiodeParams {
+            is_a,
+            ln_is,
+            n,
+            rs_ohm,
+            eg_ev,
+            xti,
+            tnom_k: 300.15,
+        }
     }
 
     /// Builds and validates a parameter set.
@@ -117,7 +125,10 @@ impl DiodeParams {
 
     /// The same diode with another series resistance RS.
     pub fn with_rs(self, rs: Ohms) -> Self {
-        DiodeParams { rs_ohm: rs.value(), ..self }
+        DiodeParams {
+            rs_ohm: rs.value(),
+            ..self
+        }
     }
 
     /// IS, the saturation current at TNOM, in amperes.
@@ -173,12 +184,38 @@ mod tests {
         let t = Temperature::from_celsius(27.0).unwrap();
         let is = Amps::new(1e-14).unwrap();
         let rs = Ohms::new(0.0).unwrap();
-        assert_eq!(DiodeParams::new(is, 0.0, rs, 1.1, 3.0, t).unwrap_err(), Error::new("N", Reason::NotPositive));
-        assert_eq!(DiodeParams::new(is, f32::NAN, rs, 1.1, 3.0, t).unwrap_err(), Error::new("N", Reason::NotFinite));
-        assert_eq!(DiodeParams::new(is, 1.0, rs, -0.1, 3.0, t).unwrap_err().input, "EG");
-        assert_eq!(DiodeParams::new(is, 1.0, rs, 1.1, f32::INFINITY, t).unwrap_err().input, "XTI");
+        assert_eq!(
+            DiodeParams::new(is, 0.0, rs, 1.1, 3.0, t).unwrap_err(),
+            Error::new("N", Reason::NotPositive)
+        );
+        assert_eq!(
+            DiodeParams::new(is, f32::NAN, rs, 1.1, 3.0, t).unwrap_err(),
+            Error::new("N", Reason::NotFinite)
+        );
+        assert_eq!(
+            DiodeParams::new(is, 1.0, rs, -0.1, 3.0, t)
+                .unwrap_err()
+                .input,
+            "EG"
+        );
+        assert_eq!(
+            DiodeParams::new(is, 1.0, rs, 1.1, f32::INFINITY, t)
+                .unwrap_err()
+                .input,
+            "XTI"
+        );
         let cold = Temperature::from_kelvin(20.0).unwrap();
-        assert_eq!(DiodeParams::new(is, 1.0, rs, 1.1, 3.0, cold).unwrap_err().input, "TNOM");
-        assert_eq!(DiodeParams::new(Amps::new(0.0).unwrap(), 1.0, rs, 1.1, 3.0, t).unwrap_err().reason, Reason::NotPositive);
+        assert_eq!(
+            DiodeParams::new(is, 1.0, rs, 1.1, 3.0, cold)
+                .unwrap_err()
+                .input,
+            "TNOM"
+        );
+        assert_eq!(
+            DiodeParams::new(Amps::new(0.0).unwrap(), 1.0, rs, 1.1, 3.0, t)
+                .unwrap_err()
+                .reason,
+            Reason::NotPositive
+        );
     }
 }

@@ -56,7 +56,12 @@ impl DiodeParams {
     ///     .unwrap();
     /// assert!((i.value() * 1000.0 - 4.3).abs() < 0.1);
     /// ```
-    pub fn series_current(&self, v_source: Volts, r_series: Ohms, t: Temperature) -> Result<Amps, Error> {
+    pub fn series_current(
+        &self,
+        v_source: Volts,
+        r_series: Ohms,
+        t: Temperature,
+    ) -> Result<Amps, Error> {
         let t_k = checked_t("temperature", t)?;
         let v = v_source.value();
         let rt = r_series.value() + self.rs_ohm;
@@ -100,6 +105,9 @@ impl DiodeParams {
     /// Forward current at a terminal voltage `v` across the diode (RS included), in amperes:
     /// the inverse of [`DiodeParams::forward_drop`]. Same model, accuracy and errors as
     /// [`DiodeParams::series_current`] with no external resistance.
+    ///
+    /// # Errors
+    /// As [`DiodeParams::series_current`].
     pub fn forward_current(&self, v: Volts, t: Temperature) -> Result<Amps, Error> {
         self.series_current(v, Ohms::raw(0.0), t)
     }
