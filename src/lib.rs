@@ -19,13 +19,21 @@
 //! 1. [`units`]: typed quantities ([`Volts`], [`Amps`], [`Ohms`], [`Henries`], [`Seconds`],
 //!    [`Joules`], [`Watts`], [`Farads`], [`Coulombs`], a [`Temperature`] point and a
 //!    [`TempDelta`] interval) and [`physics`] constants.
-//! 2. Device models: [`diode`] (forward drop over temperature, its inverse, fitting).
-//! 3. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+//! 2. Device models: [`diode`] (forward drop over temperature, its inverse, fitting), [`coil`]
+//!    (L, R(T), winding temperature, pull-in margin) and [`breakdown`] (zener, TVS, avalanche).
+//! 3. Circuit behaviour: [`clamp`] (the decay after switch-off for seven suppression topologies:
+//!    time, charge, energy per device, peak switch voltage, samples for plots, zener sizing) and
+//!    [`rating`] (single-pulse energy, average power, junction temperature, repetition rate).
+//! 4. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
 
+pub mod breakdown;
+pub mod clamp;
+pub mod coil;
 pub mod diode;
 pub mod error;
 mod math;
 pub mod physics;
+pub mod rating;
 mod solve;
 pub mod units;
 
