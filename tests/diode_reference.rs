@@ -12,30 +12,8 @@
 use kickguard::diode::{fit_three_points, fit_two_points, DiodeParams, DropPoint};
 use kickguard::{Amps, Ohms, Reason, Temperature, Volts};
 
-// Exact SI 2019 values (CODATA 2018), written here rather than taken from the crate.
-const K_B: f64 = 1.380649e-23;
-const Q_E: f64 = 1.602176634e-19;
-
-fn vt64(t_k: f64) -> f64 {
-    K_B * t_k / Q_E
-}
-
-/// ln IS(T) from the SPICE2 temperature law (Nagel 1975), f64.
-fn ln_is64(d: &DiodeParams, t_k: f64) -> f64 {
-    let n = d.n() as f64;
-    let tnom = d.tnom().kelvin() as f64;
-    let r = t_k / tnom;
-    (d.is().value() as f64).ln()
-        + (d.xti() as f64 / n) * r.ln()
-        + (r - 1.0) * d.eg_ev() as f64 / (n * vt64(t_k))
-}
-
-/// Forward drop from the Shockley equation with RS (SPICE2), f64.
-fn v64(d: &DiodeParams, i: f64, t_k: f64) -> f64 {
-    let n = d.n() as f64;
-    let x = (i.ln() - ln_is64(d, t_k)).exp();
-    n * vt64(t_k) * x.ln_1p() + i * d.rs().value() as f64
-}
+mod common;
+use common::{ln_is64, v64, vt64};
 
 fn t(c: f32) -> Temperature {
     Temperature::from_celsius(c).unwrap()

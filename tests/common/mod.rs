@@ -1,0 +1,36 @@
+//! Independent f64 references shared by the integration tests.
+//!
+//! Everything here is written from published formulas, in f64, without calling the crate's f32
+//! model code: the exact SI 2019 constants (CODATA 2018) and the SPICE2 diode equations
+//! (L. W. Nagel, "SPICE2: A computer program to simulate semiconductor circuits",
+//! UC Berkeley ERL-M520, 1975).
+#![allow(dead_code)]
+
+use kickguard::diode::DiodeParams;
+
+/// Boltzmann constant, J/K (exact, SI 2019 / CODATA 2018).
+pub const K_B: f64 = 1.380649e-23;
+/// Elementary charge, C (exact, SI 2019 / CODATA 2018).
+pub const Q_E: f64 = 1.602176634e-19;
+
+/// Thermal voltage kT/q.
+pub fn vt64(t_k: f64) -> f64 {
+    K_B * t_k / Q_E
+}
+
+/// ln IS(T) from the SPICE2 temperature law (Nagel 1975).
+pub fn ln_is64(d: &DiodeParams, t_k: f64) -> f64 {
+    let n = d.n() as f64;
+    let tnom = d.tnom().kelvin() as f64;
+    let r = t_k / tnom;
+    (d.is().value() as f64).ln()
+        + (d.xti() as f64 / n) * r.ln()
+        + (r - 1.0) * d.eg_ev() as f64 / (n * vt64(t_k))
+}
+
+/// Forward drop N·Vt·ln(1 + I/IS(T)) + I·RS (Shockley equation with RS, SPICE2).
+pub fn v64(d: &DiodeParams, i: f64, t_k: f64) -> f64 {
+    let n = d.n() as f64;
+    let x = (i.ln() - ln_is64(d, t_k)).exp();
+    n * vt64(t_k) * x.ln_1p() + i * d.rs().value() as f64
+}
