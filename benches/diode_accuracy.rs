@@ -4,21 +4,12 @@
 //! resistance and the SPICE2 temperature law (Nagel 1975), evaluated here in f64 with the exact
 //! SI 2019 constants. This is a measurement, not a test: the tests assert the bounds.
 
+#[path = "../tests/common/mod.rs"]
+mod common;
+
+use common::v64;
 use kickguard::diode::DiodeParams;
 use kickguard::{Amps, Ohms, Temperature, Volts};
-
-const K_B: f64 = 1.380649e-23;
-const Q_E: f64 = 1.602176634e-19;
-
-fn v64(d: &DiodeParams, i: f64, t_k: f64) -> f64 {
-    let n = d.n() as f64;
-    let vt = K_B * t_k / Q_E;
-    let r = t_k / d.tnom().kelvin() as f64;
-    let ln_is = (d.is().value() as f64).ln()
-        + (d.xti() as f64 / n) * r.ln()
-        + (r - 1.0) * d.eg_ev() as f64 / (n * vt);
-    n * vt * (i.ln() - ln_is).exp().ln_1p() + i * d.rs().value() as f64
-}
 
 fn main() {
     println!("diode model accuracy, f32 against f64 evaluation of the same law");

@@ -1,0 +1,190 @@
+//! Demo: the greenhouse irrigation controller's coil drivers and their suppression.
+//!
+//! Scenario (invented for the demo, see the README): four 24 V solenoid valves of 0.35 H and 56 Ω
+//! at 20 °C switched low-side by 60 V MOSFETs, each with a diode plus 18 V zener clamp; a 12 V pump
+//! contactor relay of 0.9 H and 160 Ω at 20 °C with a plain freewheeling diode, which must release
+//! at 10 % of its nominal voltage and takes 8 ms to release mechanically. Enclosure −10…55 °C,
+//! coils self-heat by up to 25 K. Generic silicon diodes; the zener and TVS values are invented.
+//!
+//! Run: `cargo run --example greenhouse`.
+
+use kickguard::breakdown::{Breakdown, BreakdownLaw};
+use kickguard::clamp::sizing::ZenerSizing;
+use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
+use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::coil::Coil;
+use kickguard::diode::DiodeParams;
+use kickguard::{Amps, Error, Farads, Henries, Ohms, Seconds, Temperature, Volts};
+
+fn main() -> Result<(), Error> {
+    let diode = DiodeParams::SILICON;
+    let t20 = Temperature::from_celsius(20.0)?;
+    let cold = Temperature::from_celsius(-10.0)?;
+    let hot = Temperature::from_celsius(80.0)?; // 55 °C enclosure + 25 K self-heating
+    let valve = Coil::copper(Henries::new(0.35)?, Ohms::new(56.0)?, t20)?;
+    let relay = Coil::copper(Henries::new(0.9)?, Ohms::new(160.0)?, t20)?;
+    let v_valve = Volts::new(24.0)?;
+    let v_relay = Volts::new(12.0)?;
+
+    println!("kickguard demo: greenhouse irrigation controller");
+    println!();
+    println!("== clamp diode forward drop at the coils' on-currents (generic silicon)");
+    println!(
+        "{:>8}  {:>12}  {:>12}  {:>14}",
+        "T (°C)", "valve", "relay", "valve tempco"
+    );
+    for c in [-10.0f32, 10.0, 30.0, 55.0, 80.0] {
+        let t = Temperature::from_celsius(c)?;
+        let i_v = valve.steady_current(v_valve, t)?;
+        let i_r = relay.steady_current(v_relay, t)?;
+        println!(
+            "{:>8.0}  {:>9.1} mV  {:>9.1} mV  {:>9.2} mV/K",
+            c,
+            diode.forward_drop(i_v, t)?.value() * 1e3,
+            diode.forward_drop(i_r, t)?.value() * 1e3,
+            diode.forward_tempco_v_per_k(i_v, t)? * 1e3
+        );
+    }
+    let tj = diode.junction_temperature(Amps::new(1e-3)?, Volts::new(0.575)?)?;
+    println!(
+        "thermometer: 575 mV at 1 mA through a spare clamp diode → junction at {:.1} °C",
+        tj.celsius()
+    );
+
+    // Valve switch-off with each clamp option, cold and hot.
+    let z18 = Breakdown::new(
+        BreakdownLaw::Datasheet {
+            vz: Volts::new(18.0)?,
+            izt: Amps::new(0.01)?,
+            rz: Ohms::new(10.0)?,
+        },
+        0.0008,
+        Temperature::from_celsius(25.0)?,
+    )?;
+    let tvs40 = Breakdown::new(
+        BreakdownLaw::Spice {
+            bv: Volts::new(40.0)?,
+            ibv: Amps::new(1e-3)?,
+            nbv: 3.0,
+            rs: Ohms::new(1.0)?,
+        },
+        0.001,
+        Temperature::from_celsius(25.0)?,
+    )?;
+    let avalanche = Breakdown::ideal(Volts::new(66.0)?)?; // a 60 V MOSFET avalanches above its rating
+    let options: [(&str, Clamp); 5] = [
+        ("diode", Clamp::FreewheelDiode(diode)),
+        (
+            "56 Ω + diode",
+            Clamp::ResistorDiode {
+                resistor: Ohms::new(56.0)?,
+                diode,
+            },
+        ),
+        (
+            "18 V zener + diode",
+            Clamp::ZenerDiode { zener: z18, diode },
+        ),
+        ("40 V TVS to ground", Clamp::SwitchZener(tvs40)),
+        ("MOSFET avalanche", Clamp::Avalanche(avalanche)),
+    ];
+    for (label, t) in [("cold coil, −10 °C", cold), ("hot coil, 80 °C", hot)] {
+        let i_on = valve.steady_current(v_valve, t)?;
+        // Assumed release at 10 % of the on-current (the valve's must-release level).
+        let i_rel = Amps::new(0.1 * i_on.value())?;
+        println!();
+        println!(
+            "== valve switch-off, {label}: I₀ = {:.3}, release at {:.3}",
+            i_on, i_rel
+        );
+        println!(
+            "{:<20} {:>10} {:>10} {:>10} {:>10} {:>10}",
+            "clamp", "release", "to 1 mA", "V_switch", "E_clamp", "E_switch"
+        );
+        for (name, clamp) in &options {
+            let off = SwitchOff::new(&valve, clamp, v_valve, i_on, t, t)?;
+            let to_release = off.time_to(i_rel)?;
+            let d = off.decay_to(Amps::new(1e-3)?)?;
+            let e = d.energy;
+            let e_clamp = e.diodes.value() + e.zener.value() + e.resistor.value();
+            println!(
+                "{:<20} {:>7.2} ms {:>7.2} ms {:>8.1} V {:>7.1} mJ {:>7.1} mJ",
+                name,
+                to_release.value() * 1e3,
+                d.time.value() * 1e3,
+                off.peak_switch_voltage().value(),
+                e_clamp * 1e3,
+                e.switch.value() * 1e3
+            );
+        }
+        let snub = SnubberSwitchOff::new(
+            &valve,
+            &RcSnubber {
+                resistor: Ohms::new(56.0)?,
+                capacitor: Farads::new(10e-6)?,
+            },
+            v_valve,
+            i_on,
+            t,
+        )?;
+        let r = snub.response()?;
+        println!(
+            "{:<20} {:>7.2} ms {:>7.2} ms {:>8.1} V {:>7.1} mJ {:>7.1} mJ   (ζ = {:.2}; times are envelope bounds)",
+            "RC 56 Ω + 10 µF",
+            snub.settle_time(i_rel)?.value() * 1e3,
+            snub.settle_time(Amps::new(1e-3)?)?.value() * 1e3,
+            r.peak_switch_voltage.value(),
+            r.energy_in_resistor.value() * 1e3,
+            0.0,
+            r.damping_ratio,
+        );
+    }
+
+    // Relay release time with the plain diode against a zener clamp.
+    println!();
+    println!("== pump relay release (8 ms mechanical), hot coil");
+    let i_on = relay.steady_current(v_relay, hot)?;
+    let i_rel = relay.steady_current(Volts::new(1.2)?, hot)?; // releases at 10 % of nominal voltage
+    for (name, clamp) in [
+        ("diode (as built)", Clamp::FreewheelDiode(diode)),
+        (
+            "diode + 18 V zener",
+            Clamp::ZenerDiode { zener: z18, diode },
+        ),
+    ] {
+        let off = SwitchOff::new(&relay, &clamp, v_relay, i_on, hot, hot)?;
+        let electrical = off.time_to(i_rel)?.value();
+        println!(
+            "{:<20} electrical {:>6.2} ms + 8 ms = release in {:>6.2} ms",
+            name,
+            electrical * 1e3,
+            (electrical + 8e-3) * 1e3
+        );
+    }
+
+    // Which zener voltages suit the valves: switch below 80 % of 60 V, release within 6 ms.
+    let sizing = ZenerSizing {
+        coil: valve,
+        diode,
+        zener_rz: Ohms::new(10.0)?,
+        zener_izt: Amps::new(0.01)?,
+        v_supply: Volts::new(26.4)?, // 24 V + 10 %
+        i_start: valve.steady_current(Volts::new(26.4)?, cold)?,
+        t_coil: cold,
+        t_clamp: cold,
+        switch_rating: Volts::new(60.0)?,
+        rating_fraction: 0.8,
+        release_current: Amps::new(0.05)?,
+        max_release_time: Seconds::new(6e-3)?,
+    };
+    let w = sizing.window()?;
+    println!();
+    println!(
+        "== valve zener window (switch ≤ 48 V at 26.4 V supply, cold coil, release to 50 mA within 6 ms): Vz {:.1} … {:.1}",
+        w.min, w.max
+    );
+    println!();
+    println!("Caution: engineering estimates from simplified models. Verify on the real hardware;");
+    println!("local codes and licensed practice prevail.");
+    Ok(())
+}
