@@ -544,6 +544,34 @@ fn rc_snubber_matches_ode_and_textbook_rlc() {
             peak = peak.max(VS as f64 + rs * y[0] + y[1]);
         }
         let e_rs = solver.y_out().last().unwrap()[2];
+        // Sampled i(t) and switch voltage agree with the ODE at a few instants.
+        let mut buf = [Sample::default(); 5];
+        let step = t_end / 40.0;
+        let n = s
+            .sample(
+                Seconds::new(step as f32).unwrap(),
+                Seconds::new(t_end as f32).unwrap(),
+                &mut buf,
+            )
+            .unwrap();
+        assert_eq!(n, 5);
+        for smp in &buf[..n] {
+            let k = ((smp.time.value() as f64 / t_end) * 200_000.0).round() as usize;
+            let y = solver.y_out()[k];
+            assert!(
+                (smp.current.value() as f64 - y[0]).abs() < 1e-4 * i0,
+                "i at {:?}: {} vs {}",
+                smp.time,
+                smp.current,
+                y[0]
+            );
+            let vsw = VS as f64 + rs * y[0] + y[1];
+            assert!(
+                (smp.switch_voltage.value() as f64 - vsw).abs() < 1e-4 * peak.abs(),
+                "v_sw {} vs {vsw}",
+                smp.switch_voltage
+            );
+        }
         assert!(
             rel(resp.peak_switch_voltage.value(), peak, 0.0) < 1e-3,
             "peak {} vs {peak}",

@@ -20,6 +20,7 @@
 //! Energy: the loop has no source after switch-off, so ½·L·I₀² + ½·C·V_s² ends up in R_c and R_s,
 //! shared in the ratio of the resistances (the same current flows through both).
 
+use super::Sample;
 use crate::coil::Coil;
 use crate::error::{Error, Reason};
 use crate::math;
@@ -277,6 +278,39 @@ impl SnubberSwitchOff {
             energy_in_resistor: Joules::new(total * self.r_s / r)?,
             energy_in_coil: Joules::new(total * self.r_c / r)?,
         })
+    }
+
+    /// Samples i(t) and the switch voltage every `dt` from switch-off into `out` (exact for the
+    /// model), until `out` is full or `duration` has passed; returns the number written. No
+    /// allocation: the caller owns the buffer.
+    ///
+    /// # Errors
+    /// `dt` = 0 → [`Reason::NotPositive`] on `"sample interval"`.
+    pub fn sample(
+        &self,
+        dt: Seconds,
+        duration: Seconds,
+        out: &mut [Sample],
+    ) -> Result<usize, Error> {
+        let dt_s = dt.value();
+        if !(dt_s > 0.0) {
+            return Err(Error::new("sample interval", Reason::NotPositive));
+        }
+        let mut n = 0usize;
+        for (k, slot) in out.iter_mut().enumerate() {
+            let t = k as f32 * dt_s;
+            if t > duration.value() {
+                break;
+            }
+            let ts = Seconds::raw(t);
+            *slot = Sample {
+                time: ts,
+                current: self.current_at(ts),
+                switch_voltage: self.switch_voltage_at(ts),
+            };
+            n += 1;
+        }
+        Ok(n)
     }
 
     /// A time after which |i| ≤ `i_end` is guaranteed: the envelope bound
