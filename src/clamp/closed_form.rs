@@ -26,7 +26,9 @@
 //! cancellation costs at most ≈ 1e-5 relative at x = 0.25. Every result is therefore within
 //! about 2e-5 relative of the exact model, R → 0 included.
 
+use crate::error::{Error, Reason};
 use crate::math;
+use crate::units::{Amps, Coulombs, Henries, Joules, Ohms, Seconds, Volts};
 
 /// Terms of the power series used below the switch-over point.
 const SERIES_TERMS: u32 = 14;
@@ -87,9 +89,147 @@ pub(crate) fn current_at(l: f32, vc: f32, r: f32, i0: f32, t: f32) -> f32 {
     i0 - (vc + r * i0) * (t / l) * frac
 }
 
+/// A coil decaying into a constant clamp voltage: the lean run-time form of the closed-form
+/// decay, for firmware that needs a wait time or an energy on the controller.
+///
+/// Loop law L·di/dt = −(Vc + R·i), with Vc the constant clamp voltage seen by the coil (for a
+/// switch-side clamp or avalanche at V_BR, Vc = V_BR − V_supply; for an ideal zener + diode
+/// across the coil, Vc = Vz + V_F) and R every resistance in the loop. Same formulas and accuracy
+/// as [`super::SwitchOff`] on an affine path (within about 2e-5 relative of the exact solution),
+/// without its topology dispatch.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct ConstantClamp {
+    l: f32,
+    r: f32,
+    vc: f32,
+}
+
+/// Result of [`ConstantClamp::decay`].
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct ConstantDecay {
+    /// Time from the start to the end current.
+    pub time: Seconds,
+    /// Charge through the clamp.
+    pub charge: Coulombs,
+    /// Energy into the clamp voltage, Vc·Q (for a switch-side clamp the device takes
+    /// V_BR·Q: add V_supply·Q from the supply).
+    pub clamp_energy: Joules,
+    /// Energy into the loop resistance, R·∫i²dt.
+    pub resistive_energy: Joules,
+}
+
+impl ConstantClamp {
+    /// A decay of inductance `l` through loop resistance `r` (≥ 0) into clamp voltage `vc`.
+    ///
+    /// # Errors
+    /// `vc` ≤ 0 → [`Reason::CannotClamp`] on `"clamp voltage"`.
+    ///
+    /// ```
+    /// use kickguard::clamp::closed_form::ConstantClamp;
+    /// use kickguard::{Amps, Henries, Ohms, Volts};
+    /// // A 60 V avalanche on a 24 V valve coil: Vc = 36 V.
+    /// let c = ConstantClamp::new(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap(),
+    ///                            Volts::new(36.0).unwrap()).unwrap();
+    /// let t = c.time_to(Amps::new(0.43).unwrap(), Amps::new(0.0).unwrap()).unwrap();
+    /// let tau = 0.35f32 / 56.0;
+    /// assert!((t.value() - tau * (1.0f32 + 0.43 * 56.0 / 36.0).ln()).abs() < 1e-7);
+    /// ```
+    pub fn new(l: Henries, r: Ohms, vc: Volts) -> Result<Self, Error> {
+        if !(vc.value() > 0.0) {
+            return Err(Error::new("clamp voltage", Reason::CannotClamp));
+        }
+        Ok(ConstantClamp {
+            l: l.value(),
+            r: r.value(),
+            vc: vc.value(),
+        })
+    }
+
+    fn check(&self, i0: Amps, i1: Amps) -> Result<(f32, f32), Error> {
+        let (a, b) = (i0.value(), i1.value());
+        if !(a > 0.0) {
+            return Err(Error::new("start current", Reason::NotPositive));
+        }
+        if b < 0.0 {
+            return Err(Error::new("end current", Reason::Negative));
+        }
+        if !(b < a) {
+            return Err(Error::new("end current", Reason::Unreachable));
+        }
+        Ok((a, b))
+    }
+
+    /// Time for the current to fall from `i0` to `i1` (0 allowed: the time to zero).
+    ///
+    /// # Errors
+    /// `i0` ≤ 0 → [`Reason::NotPositive`] on `"start current"`; `i1` < 0 → [`Reason::Negative`],
+    /// `i1` ≥ `i0` → [`Reason::Unreachable`], on `"end current"`; a time beyond the quantity
+    /// bounds → [`Reason::TooLarge`].
+    pub fn time_to(&self, i0: Amps, i1: Amps) -> Result<Seconds, Error> {
+        let (a, b) = self.check(i0, i1)?;
+        let d = a - b;
+        let w1 = self.vc + self.r * b;
+        let x = self.r * d / w1;
+        let c0 = if x < SERIES_BELOW {
+            chi(x)[0]
+        } else {
+            math::ln_1p(x) / x
+        };
+        Seconds::new(self.l * d / w1 * c0)
+    }
+
+    /// Time, charge and energies of the decay from `i0` to `i1`.
+    ///
+    /// # Errors
+    /// As [`ConstantClamp::time_to`].
+    pub fn decay(&self, i0: Amps, i1: Amps) -> Result<ConstantDecay, Error> {
+        let (a, b) = self.check(i0, i1)?;
+        let [t, q, i2] = integrals(self.l, self.vc, self.r, a, b);
+        Ok(ConstantDecay {
+            time: Seconds::new(t)?,
+            charge: Coulombs::new(q)?,
+            clamp_energy: Joules::new(self.vc * q)?,
+            resistive_energy: Joules::new(self.r * i2)?,
+        })
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn constant_clamp_matches_the_textbook_decay() {
+        // Source: constant-clamp RL decay (Horowitz & Hill, AoE 3rd ed.): time to zero
+        // τ·ln(1 + I₀R/Vc), energy balance ½·L·I₀² = Vc·Q + R·∫i²dt.
+        let c = ConstantClamp::new(
+            Henries::new(0.9).unwrap(),
+            Ohms::new(160.0).unwrap(),
+            Volts::new(18.7).unwrap(),
+        )
+        .unwrap();
+        let (i0, zero) = (Amps::new(0.075).unwrap(), Amps::new(0.0).unwrap());
+        let d = c.decay(i0, zero).unwrap();
+        let want = 0.9f64 / 160.0 * (1.0 + 0.075 * 160.0 / 18.7f64).ln();
+        assert!(
+            ((d.time.value() as f64 - want) / want).abs() < 2e-6,
+            "{:?} vs {want}",
+            d.time
+        );
+        assert_eq!(c.time_to(i0, zero).unwrap(), d.time);
+        let stored = 0.5 * 0.9 * 0.075f32 * 0.075;
+        let sum = d.clamp_energy.value() + d.resistive_energy.value();
+        assert!(((sum - stored) / stored).abs() < 1e-5);
+        assert_eq!(c.time_to(i0, i0).unwrap_err().reason, Reason::Unreachable);
+        let e = ConstantClamp::new(
+            Henries::new(1.0).unwrap(),
+            Ohms::new(1.0).unwrap(),
+            Volts::new(0.0).unwrap(),
+        );
+        assert_eq!(e.unwrap_err().reason, Reason::CannotClamp);
+    }
 
     #[test]
     fn chi_series_and_closed_agree_at_the_switch_over() {

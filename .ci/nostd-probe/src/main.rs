@@ -19,7 +19,14 @@ fn run() -> Result<f32, Error> {
     let t = Temperature::from_celsius(25.0)?;
     let drop = DiodeParams::SILICON.forward_drop(Amps::new(0.01)?, t)?;
     let coil = Coil::copper(Henries::new(0.35)?, Ohms::new(56.0)?, t)?;
-    let off = SwitchOff::new(&coil, &Clamp::FreewheelDiode(DiodeParams::SILICON), Volts::new(24.0)?, Amps::new(0.4)?, t, t)?;
+    let off = SwitchOff::new(
+        &coil,
+        &Clamp::FreewheelDiode(DiodeParams::SILICON),
+        Volts::new(24.0)?,
+        Amps::new(0.4)?,
+        t,
+        t,
+    )?;
     let mut buf = [Sample::default(); 8];
     let n = off.sample(Seconds::new(1e-3)?, Amps::new(1e-3)?, &mut buf)?;
     Ok(drop.value() + off.time_to(Amps::new(0.04)?)?.value() + n as f32)

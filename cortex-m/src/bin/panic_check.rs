@@ -1,0 +1,236 @@
+//! Link-time proof that no public kickguard function can panic.
+//!
+//! Every public function is called with inputs hidden from the optimiser (`black_box`), so every
+//! branch stays live. The panic handler calls a symbol that does not exist: if any panic path is
+//! reachable, the release (LTO) link fails with "undefined symbol:
+//! __PANIC_PATH_IS_REACHABLE__see_linker_error". Keep the call list complete as the API grows.
+#![no_std]
+#![no_main]
+
+use core::hint::black_box as bb;
+use cortex_m_rt::entry;
+use kickguard::breakdown::{Breakdown, BreakdownLaw};
+use kickguard::clamp::closed_form::ConstantClamp;
+use kickguard::clamp::sizing::ZenerSizing;
+use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
+use kickguard::clamp::{Clamp, Sample, SwitchOff};
+use kickguard::coil::Coil;
+use kickguard::diode::{fit_three_points, fit_two_points, DiodeParams, DropPoint};
+use kickguard::rating::{average_power, single_pulse, ThermalPath, Verdict};
+use kickguard::{
+    Amps, Coulombs, Error, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts,
+    Watts,
+};
+
+fn units() -> Result<(), Error> {
+    let v = Volts::new(bb(1.0))?;
+    let i = Amps::new(bb(2.0))?;
+    let r = Ohms::new(bb(3.0))?;
+    let l = Henries::new(bb(4.0))?;
+    let c = Farads::new(bb(5e-6))?;
+    let s = Seconds::new(bb(6.0))?;
+    let e = Joules::new(bb(7.0))?;
+    let p = Watts::new(bb(8.0))?;
+    let q = Coulombs::new(bb(9.0))?;
+    let t = Temperature::from_kelvin(bb(300.0))?;
+    let t2 = Temperature::from_celsius(bb(30.0))?;
+    let d = TempDelta::from_kelvin(bb(5.0))?;
+    bb((
+        r * i,
+        v * i,
+        p * s,
+        i * s,
+        q * v,
+        r * c,
+        v + v,
+        i - i,
+        e + e,
+        p - p,
+        q + q,
+    ));
+    bb((
+        l.time_constant(r)?,
+        l.stored_energy(i),
+        v.over(r)?,
+        t.offset(d)?,
+        t2 - t,
+        t.kelvin(),
+        t2.celsius(),
+    ));
+    bb(kickguard::physics::thermal_voltage(t));
+    Ok(())
+}
+
+fn diode() -> Result<(), Error> {
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let d = DiodeParams::new(
+        Amps::new(bb(1e-14))?,
+        bb(1.0),
+        Ohms::new(bb(0.1))?,
+        bb(1.11),
+        bb(3.0),
+        t,
+    )?;
+    let d = bb(d.with_rs(Ohms::new(bb(0.2))?));
+    let i = Amps::new(bb(0.01))?;
+    bb(d.forward_drop(i, t)?);
+    bb(d.saturation_current(t)?);
+    bb(d.forward_tempco_v_per_k(i, t)?);
+    bb(d.reverse_leakage(Volts::new(bb(10.0))?, t)?);
+    bb(d.series_current(Volts::new(bb(5.0))?, Ohms::new(bb(1e3))?, t)?);
+    bb(d.forward_current(Volts::new(bb(0.6))?, t)?);
+    bb(d.junction_temperature(i, Volts::new(bb(0.6))?)?);
+    bb((d.is(), d.n(), d.rs(), d.eg_ev(), d.xti(), d.tnom()));
+    let p = |a: f32, v: f32| DropPoint::new(bb(a), bb(v));
+    bb(fit_two_points(
+        [p(1e-3, 0.6)?, p(0.1, 0.8)?],
+        t,
+        Ohms::new(bb(0.0))?,
+        bb(1.11),
+        bb(3.0),
+    )?);
+    bb(fit_three_points(
+        [p(1e-3, 0.6)?, p(0.1, 0.8)?, p(1.0, 1.0)?],
+        t,
+        bb(1.11),
+        bb(3.0),
+    )?);
+    bb(d.with_eg_from_point(p(1e-3, 0.55)?, Temperature::from_celsius(bb(60.0))?)?);
+    bb(d.with_eg_from_tempco(i, bb(-2e-3))?);
+    Ok(())
+}
+
+fn coil_and_clamps() -> Result<(), Error> {
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let coil = Coil::copper(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?, t)?;
+    let coil2 = Coil::new(Henries::new(bb(0.9))?, Ohms::new(bb(160.0))?, t, bb(0.0))?;
+    bb((
+        coil.inductance(),
+        coil.resistance_ref(),
+        coil.reference_temperature(),
+        coil.alpha_per_k(),
+    ));
+    bb(coil.resistance(t)?);
+    bb(coil.winding_temperature(Ohms::new(bb(60.0))?)?);
+    bb(coil.steady_current(Volts::new(bb(24.0))?, t)?);
+    bb(coil.stored_energy(Amps::new(bb(0.4))?));
+    bb(coil2.pull_in_margin(Volts::new(bb(9.0))?, Volts::new(bb(11.0))?, t)?);
+    let law = if bb(true) {
+        BreakdownLaw::Spice {
+            bv: Volts::new(bb(40.0))?,
+            ibv: Amps::new(bb(1e-3))?,
+            nbv: bb(2.0),
+            rs: Ohms::new(bb(1.0))?,
+        }
+    } else {
+        BreakdownLaw::Datasheet {
+            vz: Volts::new(bb(18.0))?,
+            izt: Amps::new(bb(0.01))?,
+            rz: Ohms::new(bb(10.0))?,
+        }
+    };
+    let z = Breakdown::new(law, bb(1e-3), t)?;
+    bb((z.law(), z.tc_per_k(), z.voltage(Amps::new(bb(0.1))?, t)?));
+    let ideal = Breakdown::ideal(Volts::new(bb(60.0))?)?;
+    let d = DiodeParams::SCHOTTKY;
+    let clamps = [
+        Clamp::FreewheelDiode(d),
+        Clamp::ResistorDiode {
+            resistor: Ohms::new(bb(56.0))?,
+            diode: d,
+        },
+        Clamp::ZenerDiode { zener: z, diode: d },
+        Clamp::SwitchZener(z),
+        Clamp::Avalanche(ideal),
+        Clamp::HBridgeFastDecay(d),
+    ];
+    let mut buf = [Sample::default(); 4];
+    for c in bb(clamps).iter() {
+        let off = SwitchOff::new(&coil, c, Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t, t)?;
+        bb((
+            off.start_current(),
+            off.is_closed_form(),
+            off.peak_switch_voltage(),
+            off.clamp_voltage_at_start(),
+        ));
+        bb(off.time_to(Amps::new(bb(0.01))?)?);
+        bb(off.decay_to(Amps::new(bb(0.01))?)?);
+        bb(off.sample(Seconds::new(bb(1e-3))?, Amps::new(bb(0.01))?, &mut buf)?);
+    }
+    let cc = ConstantClamp::new(
+        Henries::new(bb(0.35))?,
+        Ohms::new(bb(56.0))?,
+        Volts::new(bb(36.0))?,
+    )?;
+    bb(cc.time_to(Amps::new(bb(0.4))?, Amps::new(bb(0.0))?)?);
+    bb(cc.decay(Amps::new(bb(0.4))?, Amps::new(bb(0.0))?)?);
+    let s = SnubberSwitchOff::new(
+        &coil,
+        &RcSnubber {
+            resistor: Ohms::new(bb(100.0))?,
+            capacitor: Farads::new(bb(1e-6))?,
+        },
+        Volts::new(bb(24.0))?,
+        Amps::new(bb(0.4))?,
+        t,
+    )?;
+    bb(s.response()?);
+    bb(s.settle_time(Amps::new(bb(1e-3))?)?);
+    bb(s.current_at(Seconds::new(bb(1e-3))?));
+    bb(s.switch_voltage_at(Seconds::new(bb(1e-3))?));
+    bb(s.sample(Seconds::new(bb(1e-3))?, Seconds::new(bb(1e-2))?, &mut buf)?);
+    let sizing = ZenerSizing {
+        coil,
+        diode: d,
+        zener_rz: Ohms::new(bb(10.0))?,
+        zener_izt: Amps::new(bb(0.01))?,
+        v_supply: Volts::new(bb(26.4))?,
+        i_start: Amps::new(bb(0.47))?,
+        t_coil: t,
+        t_clamp: t,
+        switch_rating: Volts::new(bb(60.0))?,
+        rating_fraction: bb(0.8),
+        release_current: Amps::new(bb(0.05))?,
+        max_release_time: Seconds::new(bb(5e-3))?,
+    };
+    bb(sizing.window()?);
+    Ok(())
+}
+
+fn ratings() -> Result<(), Error> {
+    let t = Temperature::from_celsius(bb(55.0))?;
+    let e = Joules::new(bb(0.02))?;
+    bb(single_pulse(e, Joules::new(bb(0.1))?)?);
+    bb(average_power(e, bb(5.0))?);
+    bb(Verdict::of(bb(1.0), bb(2.0), "x")?);
+    let path = ThermalPath::new(bb(200.0), t, Temperature::from_celsius(bb(150.0))?)?;
+    bb(path.max_power());
+    bb(path.check(Watts::new(bb(0.1))?)?);
+    bb(path.max_repetition_rate_hz(e, Seconds::new(bb(0.01))?)?);
+    Ok(())
+}
+
+#[entry]
+fn main() -> ! {
+    let _ = bb(units());
+    let _ = bb(diode());
+    let _ = bb(coil_and_clamps());
+    let _ = bb(ratings());
+    #[cfg(feature = "force-panic")]
+    {
+        let arr = bb([1u32, 2, 3]);
+        bb(arr[bb(7usize)]); // reachable bounds-check panic: the link must fail
+    }
+    cortex_m_semihosting::debug::exit(cortex_m_semihosting::debug::EXIT_SUCCESS);
+    loop {}
+}
+
+#[panic_handler]
+fn panic(_: &core::panic::PanicInfo) -> ! {
+    extern "Rust" {
+        #[link_name = "__PANIC_PATH_IS_REACHABLE__see_linker_error"]
+        fn panic_is_reachable() -> !;
+    }
+    // SAFETY: the symbol does not exist; this call exists only to make the link fail.
+    unsafe { panic_is_reachable() }
+}

@@ -1,0 +1,56 @@
+//! The run-time API a firmware links: what runs on the controller after configuration. Its flash
+//! size, less `size_baseline`'s, is checked against the budget by `.ci/cross`.
+//!
+//! Run-time API (what DESIGN.md puts on the controller: a few multiplications and at most a
+//! logarithm or a short bounded solve): diode drop and tempco at a measured temperature, the
+//! diode as a thermometer, coil R(T), winding temperature from a measured resistance and steady
+//! current, the closed-form constant-clamp decay (wait time, charge, energies), the thermal check.
+//! Configuration-time functions (fits, the full `SwitchOff` engine with its diode-law
+//! quadrature, sizing, the snubber, sampling for plots, the series-resistor solve) are measured
+//! separately as "whole public API".
+#![no_std]
+#![no_main]
+
+use core::hint::black_box as bb;
+use cortex_m_rt::entry;
+use kickguard::clamp::closed_form::ConstantClamp;
+use kickguard::coil::Coil;
+use kickguard::diode::DiodeParams;
+use kickguard::rating::ThermalPath;
+use kickguard::{Amps, Error, Henries, Ohms, Temperature, Volts, Watts};
+
+fn run() -> Result<f32, Error> {
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let d = bb(DiodeParams::SILICON);
+    let mut acc = d.forward_drop(Amps::new(bb(0.4))?, t)?.value();
+    acc += d
+        .junction_temperature(Amps::new(bb(1e-3))?, Volts::new(bb(0.6))?)?
+        .kelvin();
+    let coil = Coil::copper(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?, t)?;
+    acc += coil.resistance(t)?.value() + coil.winding_temperature(Ohms::new(bb(60.0))?)?.kelvin();
+    acc += d.forward_tempco_v_per_k(Amps::new(bb(0.4))?, t)?;
+    acc += coil.steady_current(Volts::new(bb(24.0))?, t)?.value();
+    let decay = ConstantClamp::new(
+        coil.inductance(),
+        coil.resistance(t)?,
+        Volts::new(bb(42.0))?,
+    )?;
+    let (i0, i1) = (Amps::new(bb(0.4))?, Amps::new(bb(0.0))?);
+    let dec = decay.decay(i0, i1)?;
+    acc += decay.time_to(i0, i1)?.value() + dec.clamp_energy.value() + dec.resistive_energy.value();
+    let path = ThermalPath::new(bb(200.0), t, Temperature::from_celsius(bb(150.0))?)?;
+    acc += path.check(Watts::new(bb(0.1))?)?.junction.kelvin();
+    Ok(acc)
+}
+
+#[entry]
+fn main() -> ! {
+    let _ = bb(run());
+    cortex_m_semihosting::debug::exit(cortex_m_semihosting::debug::EXIT_SUCCESS);
+    loop {}
+}
+
+#[panic_handler]
+fn panic(_: &core::panic::PanicInfo) -> ! {
+    loop {}
+}
