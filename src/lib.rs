@@ -31,6 +31,8 @@ pub mod clamp;
 pub mod coil;
 pub mod diode;
 pub mod error;
+#[cfg(feature = "micromath")]
+pub mod fast;
 mod math;
 pub mod physics;
 pub mod rating;

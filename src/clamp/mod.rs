@@ -333,7 +333,7 @@ impl SwitchOff {
     /// # Errors
     /// `i_end` < 0 → [`Reason::Negative`]; `i_end` ≥ the start current, or `i_end` = 0 on a path
     /// that only tends to zero (any path without a positive constant clamp voltage) →
-    /// [`Reason::Unreachable`]; a ratio of start to end current above e⁴⁰ →
+    /// [`Reason::Unreachable`]; a ratio of start to end current above e⁴⁸ ≈ 7e20 →
     /// [`Reason::OutsideValidatedRange`]; all on `"end current"`.
     pub fn time_to(&self, i_end: Amps) -> Result<Seconds, Error> {
         let i1 = self.check_end(i_end)?;

@@ -210,8 +210,31 @@ fn ratings() -> Result<(), Error> {
     Ok(())
 }
 
+#[cfg(feature = "micromath")]
+fn fast() -> Result<(), Error> {
+    let t = Temperature::from_celsius(bb(25.0))?;
+    bb(kickguard::fast::forward_drop(
+        &DiodeParams::SILICON,
+        Amps::new(bb(0.4))?,
+        t,
+    )?);
+    let cc = ConstantClamp::new(
+        Henries::new(bb(0.35))?,
+        Ohms::new(bb(56.0))?,
+        Volts::new(bb(36.0))?,
+    )?;
+    bb(kickguard::fast::constant_clamp_time(
+        &cc,
+        Amps::new(bb(0.4))?,
+        Amps::new(bb(0.0))?,
+    )?);
+    Ok(())
+}
+
 #[entry]
 fn main() -> ! {
+    #[cfg(feature = "micromath")]
+    let _ = bb(fast());
     let _ = bb(units());
     let _ = bb(diode());
     let _ = bb(coil_and_clamps());

@@ -1,0 +1,199 @@
+//! The run-time calls measured by the timing and instruction-count benches (shared by both).
+//! Every input passes through `black_box` so nothing is folded at compile time.
+#![allow(dead_code)]
+
+use kickguard::breakdown::Breakdown;
+use kickguard::clamp::closed_form::ConstantClamp;
+use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::coil::Coil;
+use kickguard::diode::DiodeParams;
+use kickguard::{Amps, Henries, Ohms, Temperature, Volts};
+use std::hint::black_box as bb;
+use std::sync::LazyLock;
+
+/// Prepared once, outside the measured calls: the firmware builds these at start-up.
+static CLAMP: LazyLock<ConstantClamp> = LazyLock::new(|| {
+    ConstantClamp::new(
+        Henries::new(0.35).unwrap(),
+        Ohms::new(56.0).unwrap(),
+        Volts::new(42.0).unwrap(),
+    )
+    .unwrap()
+});
+static DIODE_OFF: LazyLock<SwitchOff> = LazyLock::new(|| {
+    let clamp = Clamp::FreewheelDiode(DiodeParams::SILICON);
+    SwitchOff::new(
+        &valve(),
+        &clamp,
+        Volts::new(24.0).unwrap(),
+        Amps::new(0.43).unwrap(),
+        t25(),
+        t25(),
+    )
+    .unwrap()
+});
+
+/// A measured call: its name, the instruction target it must meet (None: report only), and the
+/// call itself (returns an f32 so the work cannot be discarded).
+pub struct Case {
+    pub name: &'static str,
+    pub target: Option<u64>,
+    pub run: fn() -> f32,
+}
+
+fn t25() -> Temperature {
+    Temperature::from_celsius(bb(25.0)).unwrap()
+}
+
+fn valve() -> Coil {
+    Coil::copper(
+        Henries::new(bb(0.35)).unwrap(),
+        Ohms::new(bb(56.0)).unwrap(),
+        t25(),
+    )
+    .unwrap()
+}
+
+fn constant_time() -> f32 {
+    bb(&*CLAMP)
+        .time_to(Amps::new(bb(0.43)).unwrap(), Amps::new(bb(0.0)).unwrap())
+        .unwrap()
+        .value()
+}
+
+fn constant_energy() -> f32 {
+    bb(&*CLAMP)
+        .decay(Amps::new(bb(0.43)).unwrap(), Amps::new(bb(0.0)).unwrap())
+        .unwrap()
+        .clamp_energy
+        .value()
+}
+
+fn switch_off_avalanche() -> f32 {
+    let clamp = Clamp::Avalanche(Breakdown::ideal(Volts::new(bb(66.0)).unwrap()).unwrap());
+    let off = SwitchOff::new(
+        &valve(),
+        &clamp,
+        Volts::new(bb(24.0)).unwrap(),
+        Amps::new(bb(0.43)).unwrap(),
+        t25(),
+        t25(),
+    )
+    .unwrap();
+    off.decay_to(Amps::new(bb(0.0)).unwrap())
+        .unwrap()
+        .energy
+        .switch
+        .value()
+}
+
+fn diode_law_decay() -> f32 {
+    bb(&*DIODE_OFF)
+        .decay_to(Amps::new(bb(0.0043)).unwrap())
+        .unwrap()
+        .time
+        .value()
+}
+
+fn diode_law_decay_deep() -> f32 {
+    bb(&*DIODE_OFF)
+        .decay_to(Amps::new(bb(4.3e-6)).unwrap())
+        .unwrap()
+        .time
+        .value()
+}
+
+fn forward_drop() -> f32 {
+    DiodeParams::SILICON
+        .forward_drop(Amps::new(bb(0.43)).unwrap(), t25())
+        .unwrap()
+        .value()
+}
+
+fn thermometer() -> f32 {
+    DiodeParams::SILICON
+        .junction_temperature(Amps::new(bb(1e-3)).unwrap(), Volts::new(bb(0.575)).unwrap())
+        .unwrap()
+        .kelvin()
+}
+
+fn winding_temperature() -> f32 {
+    valve()
+        .winding_temperature(Ohms::new(bb(64.8)).unwrap())
+        .unwrap()
+        .kelvin()
+}
+
+#[cfg(feature = "micromath")]
+fn fast_forward_drop() -> f32 {
+    kickguard::fast::forward_drop(&DiodeParams::SILICON, Amps::new(bb(0.43)).unwrap(), t25())
+        .unwrap()
+        .value()
+}
+
+#[cfg(feature = "micromath")]
+fn fast_constant_time() -> f32 {
+    kickguard::fast::constant_clamp_time(
+        bb(&*CLAMP),
+        Amps::new(bb(0.43)).unwrap(),
+        Amps::new(bb(0.0)).unwrap(),
+    )
+    .unwrap()
+    .value()
+}
+
+/// Every measured call.
+pub const CASES: &[Case] = &[
+    Case {
+        name: "closed-form decay time (ConstantClamp::time_to)",
+        target: Some(300),
+        run: constant_time,
+    },
+    Case {
+        name: "closed-form clamp energy (ConstantClamp::decay)",
+        target: Some(300),
+        run: constant_energy,
+    },
+    Case {
+        name: "SwitchOff::new + decay_to, avalanche (closed form)",
+        target: None,
+        run: switch_off_avalanche,
+    },
+    Case {
+        name: "full diode-law decay_to, I0 to I0/100",
+        target: Some(20_000),
+        run: diode_law_decay,
+    },
+    Case {
+        name: "full diode-law decay_to, I0 to I0/1e5",
+        target: Some(20_000),
+        run: diode_law_decay_deep,
+    },
+    Case {
+        name: "diode forward drop",
+        target: None,
+        run: forward_drop,
+    },
+    Case {
+        name: "junction temperature from drop",
+        target: None,
+        run: thermometer,
+    },
+    Case {
+        name: "winding temperature from R",
+        target: None,
+        run: winding_temperature,
+    },
+    #[cfg(feature = "micromath")]
+    Case {
+        name: "fast::forward_drop (micromath)",
+        target: None,
+        run: fast_forward_drop,
+    },
+    #[cfg(feature = "micromath")]
+    Case {
+        name: "fast::constant_clamp_time (micromath)",
+        target: None,
+        run: fast_constant_time,
+    },
+];
