@@ -14,6 +14,10 @@ use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
 use kickguard::clamp::{Clamp, SwitchOff};
 use kickguard::coil::Coil;
 use kickguard::diode::DiodeParams;
+use kickguard::pwm::{
+    hold_current_drift, hold_duty, time_to_current, Freewheel, HoldOperatingPoint,
+};
+use kickguard::timing::{release_current, release_time, to_ticks};
 use kickguard::{Amps, Error, Farads, Henries, Ohms, Seconds, Temperature, Volts};
 
 fn main() -> Result<(), Error> {
@@ -140,11 +144,11 @@ fn main() -> Result<(), Error> {
         );
     }
 
-    // Relay release time with the plain diode against a zener clamp.
+    // Relay release time with the plain diode against a zener clamp, and the firmware's wait.
     println!();
-    println!("== pump relay release (8 ms mechanical), hot coil");
+    println!("== pump relay release (releases below 10 % of 12 V, 8 ms mechanical), hot coil");
     let i_on = relay.steady_current(v_relay, hot)?;
-    let i_rel = relay.steady_current(Volts::new(1.2)?, hot)?; // releases at 10 % of nominal voltage
+    let i_rel = release_current(&relay, Volts::new(1.2)?, hot)?;
     for (name, clamp) in [
         ("diode (as built)", Clamp::FreewheelDiode(diode)),
         (
@@ -153,14 +157,65 @@ fn main() -> Result<(), Error> {
         ),
     ] {
         let off = SwitchOff::new(&relay, &clamp, v_relay, i_on, hot, hot)?;
-        let electrical = off.time_to(i_rel)?.value();
+        let r = release_time(&off, i_rel, Seconds::new(8e-3)?)?;
         println!(
-            "{:<20} electrical {:>6.2} ms + 8 ms = release in {:>6.2} ms",
+            "{:<20} electrical {:>6.2} ms + 8 ms = {:>6.2} ms → wait {} ticks of 1 ms before re-energising",
             name,
-            electrical * 1e3,
-            (electrical + 8e-3) * 1e3
+            r.electrical.value() * 1e3,
+            r.total.value() * 1e3,
+            to_ticks(r.total, 1000.0)?
         );
     }
+
+    // Valve peak-and-hold at 20 kHz: pull-in, then hold at 35 % of the cold on-current.
+    println!();
+    println!("== valve peak-and-hold, 20 kHz, 24 V");
+    let pull_in = time_to_current(&valve, v_valve, Amps::new(0.3)?, hot)?;
+    println!(
+        "time to reach 0.3 A pull-in, hot coil: {:.2} ms",
+        pull_in.value() * 1e3
+    );
+    let i_hold = Amps::new(0.15)?;
+    for (name, zener_v) in [
+        ("diode freewheel", 0.0f32),
+        ("diode + 18 V zener (as built)", 18.0),
+    ] {
+        let fw = Freewheel {
+            diode_drop: diode.forward_drop(i_hold, hot)?,
+            zener: Volts::new(zener_v)?,
+        };
+        let d = hold_duty(&valve, v_valve, i_hold, hot, fw)?;
+        let p = HoldOperatingPoint::new(&valve, v_valve, hot, fw, 20_000.0, d)?;
+        let rp = p.ripple()?;
+        let pw = p.freewheel_power()?;
+        println!(
+            "{:<30} duty {:.3} (compare {} of 1600), ripple {:.1} mA p-p, freewheel power: diode {:.0} mW, zener {:.0} mW",
+            name,
+            d,
+            p.compare_value(1600)?,
+            rp.peak_to_peak.value() * 1e3,
+            pw.diode.value() * 1e3,
+            pw.zener.value() * 1e3
+        );
+        if pw.zener.value() > 0.0 {
+            println!("{:<30} note: the zener conducts every PWM cycle; it dissipates continuously while holding", "");
+        }
+    }
+    let fw_cold = Freewheel {
+        diode_drop: diode.forward_drop(i_hold, cold)?,
+        zener: Volts::new(0.0)?,
+    };
+    let fw_hot = Freewheel {
+        diode_drop: diode.forward_drop(i_hold, hot)?,
+        zener: Volts::new(0.0)?,
+    };
+    let d_cold = hold_duty(&valve, v_valve, i_hold, cold, fw_cold)?;
+    let (c_cold, c_hot) = hold_current_drift(&valve, v_valve, d_cold, fw_cold, fw_hot, cold, hot)?;
+    println!(
+        "duty set for 150 mA cold holds {:.0} mA at −10 °C and {:.0} mA at 80 °C (copper heating)",
+        c_cold.value() * 1e3,
+        c_hot.value() * 1e3
+    );
 
     // Which zener voltages suit the valves: switch below 80 % of 60 V, release within 6 ms.
     let sizing = ZenerSizing {

@@ -24,7 +24,9 @@
 //! 3. Circuit behaviour: [`clamp`] (the decay after switch-off for seven suppression topologies:
 //!    time, charge, energy per device, peak switch voltage, samples for plots, zener sizing) and
 //!    [`rating`] (single-pulse energy, average power, junction temperature, repetition rate).
-//! 4. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+//! 4. Timing: [`timing`] (release time, off-time, reversal wait, repetition rate, timer ticks) and
+//!    [`pwm`] (peak-and-hold: pull-in time, hold duty, exact ripple, freewheel power, hysteretic).
+//! 5. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
 
 pub mod breakdown;
 pub mod clamp;
@@ -35,8 +37,10 @@ pub mod error;
 pub mod fast;
 mod math;
 pub mod physics;
+pub mod pwm;
 pub mod rating;
 mod solve;
+pub mod timing;
 pub mod units;
 
 pub use error::{Error, Reason};

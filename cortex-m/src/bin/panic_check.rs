@@ -231,8 +231,73 @@ fn fast() -> Result<(), Error> {
     Ok(())
 }
 
+fn timing_and_pwm() -> Result<(), Error> {
+    use kickguard::pwm::{
+        compare_value, hold_current_drift, hold_duty, hysteretic, time_to_current, Freewheel,
+        HoldOperatingPoint,
+    };
+    use kickguard::timing::{
+        max_repetition_rate_hz, release_current, release_time, reversal_wait, to_ticks,
+    };
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let coil = Coil::copper(Henries::new(bb(0.9))?, Ohms::new(bb(160.0))?, t)?;
+    let v = Volts::new(bb(12.0))?;
+    let off = SwitchOff::new(
+        &coil,
+        &Clamp::FreewheelDiode(DiodeParams::SILICON),
+        v,
+        Amps::new(bb(0.075))?,
+        t,
+        t,
+    )?;
+    let i_rel = release_current(&coil, Volts::new(bb(1.2))?, t)?;
+    let r = release_time(&off, i_rel, Seconds::new(bb(8e-3))?)?;
+    bb(reversal_wait(&off, i_rel)?);
+    bb(max_repetition_rate_hz(
+        r.total,
+        Seconds::new(bb(0.1))?,
+        bb(0.01),
+        bb(0.5),
+    )?);
+    bb(to_ticks(r.total, bb(1000.0))?);
+    bb(time_to_current(&coil, v, Amps::new(bb(0.05))?, t)?);
+    let fw = Freewheel {
+        diode_drop: Volts::new(bb(0.8))?,
+        zener: Volts::new(bb(0.0))?,
+    };
+    let d = hold_duty(&coil, v, Amps::new(bb(0.03))?, t, fw)?;
+    let p = HoldOperatingPoint::new(&coil, v, t, fw, bb(20_000.0), d)?;
+    bb((
+        p.mean_current()?,
+        p.ripple()?,
+        p.freewheel_power()?,
+        p.frequency_for_ripple(Amps::new(bb(1e-3))?)?,
+        p.compare_value(bb(1600))?,
+    ));
+    bb(compare_value(d, bb(1600))?);
+    bb(hold_current_drift(
+        &coil,
+        v,
+        d,
+        fw,
+        fw,
+        t,
+        Temperature::from_celsius(bb(80.0))?,
+    )?);
+    bb(hysteretic(
+        &coil,
+        v,
+        t,
+        fw,
+        Amps::new(bb(0.02))?,
+        Amps::new(bb(0.03))?,
+    )?);
+    Ok(())
+}
+
 #[entry]
 fn main() -> ! {
+    let _ = bb(timing_and_pwm());
     #[cfg(feature = "micromath")]
     let _ = bb(fast());
     let _ = bb(units());
