@@ -14,6 +14,10 @@ use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
 use kickguard::clamp::{Clamp, SwitchOff};
 use kickguard::coil::Coil;
 use kickguard::diode::DiodeParams;
+use kickguard::input::board::{Board, BoardInput};
+use kickguard::input::rail::{rail_off_check, shared_clamp};
+use kickguard::input::resistor::{resistor_window, InjectionLimits, UpperLimits};
+use kickguard::input::{Pin, PinClamp, SignalRange};
 use kickguard::pwm::{
     hold_current_drift, hold_duty, time_to_current, Freewheel, HoldOperatingPoint,
 };
@@ -238,6 +242,112 @@ fn main() -> Result<(), Error> {
         "== valve zener window (switch ≤ 48 V at 26.4 V supply, cold coil, release to 50 mA within 6 ms): Vz {:.1} … {:.1}",
         w.min, w.max
     );
+    // Inputs: the 24 V rain sensor and four drain-sense lines into 3.3 V pins.
+    println!();
+    println!("== inputs into 3.3 V pins (hot MCU 85 °C, rail at its 3.0 V minimum; ±5 mA per pin, ±20 mA total, rail load ≥ 8 mA)");
+    let mcu = Pin::new(
+        Volts::new(3.0)?,
+        PinClamp::DiodeLaw(diode),
+        Temperature::from_celsius(85.0)?,
+    )?;
+    let ma = |x: f32| Amps::new(x * 1e-3);
+    let per_pin = InjectionLimits {
+        positive: ma(5.0)?,
+        negative: ma(5.0)?,
+    };
+    let rain = SignalRange::new(
+        Volts::new(0.0)?,
+        Volts::new(24.0)?,
+        Volts::new(-2.0)?,
+        Volts::new(30.0)?,
+        Seconds::new(1e-3)?,
+    )?;
+    // Drain sense: safe even with the freewheeling diode failed open (the MOSFET avalanches at 66 V).
+    let drain = SignalRange::drain_sense_open_diode(
+        Volts::new(26.4)?,
+        Volts::new(66.0)?,
+        Seconds::new(3e-3)?,
+    )?;
+    let upper = UpperLimits {
+        leakage: Some((Amps::new(1e-6)?, Volts::new(0.05)?)),
+        ..UpperLimits::default()
+    };
+    for (name, sig) in [("rain sensor", rain), ("drain sense", drain)] {
+        let w = resistor_window(&mcu, &sig, per_pin, &upper)?;
+        println!(
+            "{:<12} series resistor window {:.0} … {:.0} Ω (max set by {:?})",
+            name,
+            w.min,
+            w.max.map(|m| m.value()).unwrap_or(f32::INFINITY),
+            w.max_set_by
+        );
+    }
+    let mut board: Board<5> = Board::new(
+        mcu,
+        InjectionLimits {
+            positive: ma(20.0)?,
+            negative: ma(20.0)?,
+        },
+        Some(ma(8.0)?),
+    );
+    let r_rain = Ohms::new(22_000.0)?;
+    let r_drain = Ohms::new(47_000.0)?;
+    let _ = board.add(BoardInput {
+        name: "rain",
+        signal: rain,
+        resistor: r_rain,
+        limits: per_pin,
+    });
+    for name in ["drain 1", "drain 2", "drain 3", "drain 4"] {
+        let _ = board.add(BoardInput {
+            name,
+            signal: drain,
+            resistor: r_drain,
+            limits: per_pin,
+        });
+    }
+    let report = board.check()?;
+    for r in &report.inputs {
+        println!(
+            "{:<8} worst injection {:+.2} mA / {:+.2} mA (margin {:.0} %)",
+            r.name,
+            r.transient_positive.value() * 1e3,
+            r.transient_negative.value() * 1e3,
+            r.positive.margin.min(r.negative.margin) * 100.0
+        );
+    }
+    println!(
+        "board: total {:.2} mA into the rail at the worst transient; steady injection against the 8 mA minimum load: {}; verdict {}",
+        report.total_positive.value() * 1e3,
+        match report.rail_on { Some(v) if v.pass => "ok", Some(_) => "RAIL RISES", None => "not checked" },
+        if report.pass { "PASS" } else { "FAIL" }
+    );
+    let off = rail_off_check(
+        &mcu,
+        Volts::new(24.0)?,
+        r_rain,
+        Ohms::new(1000.0)?,
+        Volts::new(0.5)?,
+    )?;
+    println!(
+        "rail off, rain sensor at 24 V: {:.2} V pushed onto the unpowered 3.3 V rail (allowed 0.5 V): {}",
+        off.rail_voltage.value(),
+        if off.verdict.pass { "ok" } else { "FLAG" }
+    );
+    let sh = shared_clamp(
+        mcu.vdd,
+        &diode,
+        &DiodeParams::SCHOTTKY,
+        mcu.temperature,
+        Volts::new(66.0)?,
+        r_drain,
+    )?;
+    println!(
+        "with a Schottky to the rail on a drain line at 66 V: internal diode {:.3} mA, Schottky {:.3} mA",
+        sh.internal.value() * 1e3,
+        sh.external.value() * 1e3
+    );
+
     println!();
     println!("Caution: engineering estimates from simplified models. Verify on the real hardware;");
     println!("local codes and licensed practice prevail.");

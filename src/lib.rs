@@ -24,9 +24,11 @@
 //! 3. Circuit behaviour: [`clamp`] (the decay after switch-off for seven suppression topologies:
 //!    time, charge, energy per device, peak switch voltage, samples for plots, zener sizing) and
 //!    [`rating`] (single-pulse energy, average power, junction temperature, repetition rate).
-//! 4. Timing: [`timing`] (release time, off-time, reversal wait, repetition rate, timer ticks) and
+//! 4. Input protection: [`input`] (a pin's clamp diodes fed through a series resistor: injection,
+//!    the resistor window, rail back-powering on and off, an external clamp, a whole board).
+//! 5. Timing: [`timing`] (release time, off-time, reversal wait, repetition rate, timer ticks) and
 //!    [`pwm`] (peak-and-hold: pull-in time, hold duty, exact ripple, freewheel power, hysteretic).
-//! 5. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+//! 6. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
 
 pub mod breakdown;
 pub mod clamp;
@@ -35,6 +37,7 @@ pub mod diode;
 pub mod error;
 #[cfg(feature = "micromath")]
 pub mod fast;
+pub mod input;
 mod math;
 pub mod physics;
 pub mod pwm;

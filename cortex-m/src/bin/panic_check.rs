@@ -295,8 +295,99 @@ fn timing_and_pwm() -> Result<(), Error> {
     Ok(())
 }
 
+fn input_protection() -> Result<(), Error> {
+    use kickguard::input::board::{Board, BoardInput};
+    use kickguard::input::rail::{
+        neighbour_adc_error, rail_off_check, rail_on_check, shared_clamp,
+    };
+    use kickguard::input::resistor::{
+        max_resistor, min_resistor, resistor_power, resistor_window, transient_energy,
+        InjectionLimits, UpperLimits,
+    };
+    use kickguard::input::{Pin, PinClamp, SignalRange};
+    let t = Temperature::from_celsius(bb(85.0))?;
+    let clamp = if bb(true) {
+        PinClamp::DiodeLaw(DiodeParams::SILICON)
+    } else {
+        PinClamp::FixedDrop(Volts::new(bb(0.3))?)
+    };
+    let pin = Pin::new(Volts::new(bb(3.0))?, clamp, t)?;
+    let r = Ohms::new(bb(10_000.0))?;
+    let s = SignalRange::new(
+        Volts::new(bb(0.0))?,
+        Volts::new(bb(24.0))?,
+        Volts::new(bb(-2.0))?,
+        Volts::new(bb(30.0))?,
+        Seconds::new(bb(1e-3))?,
+    )?;
+    let d = SignalRange::drain_sense_open_diode(
+        Volts::new(bb(24.0))?,
+        Volts::new(bb(66.0))?,
+        Seconds::new(bb(3e-3))?,
+    )?;
+    bb((
+        pin.injection(s.transient_max, r)?,
+        pin.pin_voltage(s.transient_min, r)?,
+    ));
+    let lim = InjectionLimits {
+        positive: Amps::new(bb(5e-3))?,
+        negative: Amps::new(bb(5e-3))?,
+    };
+    let up = UpperLimits {
+        adc_max_source: Some(Ohms::new(bb(50_000.0))?),
+        leakage: Some((Amps::new(bb(1e-6))?, Volts::new(bb(0.01))?)),
+        logic_high: Some((
+            Amps::new(bb(1e-6))?,
+            Volts::new(bb(10.0))?,
+            Volts::new(bb(2.0))?,
+        )),
+        sampling: Some((
+            Farads::new(bb(1e-11))?,
+            Seconds::new(bb(1e-6))?,
+            bb(12),
+            Ohms::new(bb(1000.0))?,
+        )),
+    };
+    bb((
+        min_resistor(&pin, &s, lim)?,
+        max_resistor(&up)?,
+        resistor_window(&pin, &s, lim, &up)?,
+    ));
+    bb((
+        resistor_power(&pin, s.transient_max, r)?,
+        transient_energy(&pin, &d, r)?,
+    ));
+    bb(rail_on_check(Amps::new(bb(6e-3))?, Amps::new(bb(8e-3))?)?);
+    bb(rail_off_check(
+        &pin,
+        s.steady_max,
+        r,
+        Ohms::new(bb(1000.0))?,
+        Volts::new(bb(0.5))?,
+    )?);
+    bb(shared_clamp(
+        pin.vdd,
+        &DiodeParams::SILICON,
+        &DiodeParams::SCHOTTKY,
+        t,
+        s.transient_max,
+        r,
+    )?);
+    bb(neighbour_adc_error(Amps::new(bb(2e-3))?, bb(1e-4), r)?);
+    let mut board: Board<2> = Board::new(pin, lim, Some(Amps::new(bb(8e-3))?));
+    let _ = bb(board.add(BoardInput {
+        name: "a",
+        signal: s,
+        resistor: r,
+        limits: lim,
+    }));
+    bb(board.check()?);
+    Ok(())
+}
+
 #[entry]
 fn main() -> ! {
+    let _ = bb(input_protection());
     let _ = bb(timing_and_pwm());
     #[cfg(feature = "micromath")]
     let _ = bb(fast());
