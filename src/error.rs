@@ -27,6 +27,10 @@ pub enum Reason {
     OutsideValidatedRange,
     /// A set of points is not ordered as the model requires (for example currents not increasing).
     NotIncreasing,
+    /// A sequence that must fall (a decay's samples) does not.
+    NotDecreasing,
+    /// A list has fewer entries than the method needs.
+    TooFew,
     /// The inputs contradict the model (for example a diode drop that falls as current rises,
     /// or a fit whose result is unphysical).
     Inconsistent,
@@ -75,6 +79,8 @@ impl fmt::Display for Reason {
             Reason::BelowAbsoluteZero => "is at or below absolute zero",
             Reason::OutsideValidatedRange => "is outside the validated range of the model",
             Reason::NotIncreasing => "is not strictly increasing",
+            Reason::NotDecreasing => "is not strictly decreasing",
+            Reason::TooFew => "has too few entries",
             Reason::Inconsistent => "contradicts the model",
             Reason::CannotClamp => "is too low to clamp",
             Reason::Unreachable => "is never reached",

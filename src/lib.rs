@@ -28,11 +28,15 @@
 //!    the resistor window, rail back-powering on and off, an external clamp, a whole board).
 //! 5. Timing: [`timing`] (release time, off-time, reversal wait, repetition rate, timer ticks) and
 //!    [`pwm`] (peak-and-hold: pull-in time, hold duty, exact ripple, freewheel power, hysteretic).
-//! 6. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+//! 6. Diagnosis: [`diagnosis`] (healthy and fault windows of a measured decay over the tolerances,
+//!    their separability, an integer-only run-time verdict, a history of verdicts, a
+//!    least-squares fit of τ and the clamp voltage, an `embedded-hal` flyback timer).
+//! 7. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
 
 pub mod breakdown;
 pub mod clamp;
 pub mod coil;
+pub mod diagnosis;
 pub mod diode;
 pub mod error;
 #[cfg(feature = "micromath")]

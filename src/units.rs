@@ -269,12 +269,10 @@ impl Temperature {
     /// # Errors
     /// As [`Temperature::from_kelvin`], with input name `"temperature (°C)"`.
     pub const fn from_celsius(c: f32) -> Result<Self, Error> {
-        match error::finite("temperature (°C)", c) {
-            Ok(c) if c + ZERO_CELSIUS_IN_KELVIN > 0.0 => {
-                Ok(Temperature(c + ZERO_CELSIUS_IN_KELVIN))
-            }
-            Ok(_) => Err(Error::new("temperature (°C)", Reason::BelowAbsoluteZero)),
-            Err(e) => Err(e),
+        // Non-finite input stays non-finite after the shift, so one check serves both scales.
+        match Temperature::from_kelvin(c + ZERO_CELSIUS_IN_KELVIN) {
+            Ok(t) => Ok(t),
+            Err(e) => Err(Error::new("temperature (°C)", e.reason)),
         }
     }
 

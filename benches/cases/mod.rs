@@ -142,8 +142,57 @@ fn fast_constant_time() -> f32 {
     .value()
 }
 
+/// Seven windows, built at compile time as a firmware would from generated constants.
+static WINDOWS: kickguard::diagnosis::Windows = {
+    use kickguard::diagnosis::classify::{Entry, Windows};
+    use kickguard::diagnosis::Condition::*;
+    const fn e(lo: u32, condition: kickguard::diagnosis::Condition) -> Entry {
+        Entry {
+            lo,
+            hi: lo + 50,
+            condition,
+        }
+    }
+    Windows::from_entries(
+        [
+            e(10, Healthy),
+            e(110, FreewheelOpen),
+            e(210, ZenerShorted),
+            e(310, ZenerOpen),
+            e(410, CoilOpen),
+            e(510, ShortedTurns),
+            e(610, CoilTooHot),
+        ],
+        7,
+    )
+};
+
+/// The harness alone: a call through the case table with one black-boxed input. Its count is
+/// subtracted from every other case (the "net" column).
+fn empty() -> f32 {
+    bb(1.0f32)
+}
+
+/// Worst case for the verdict: a reading outside every window scans all seven.
+fn verdict() -> f32 {
+    match bb(&WINDOWS).classify(bb(95u32)) {
+        kickguard::diagnosis::Verdict::Unexplained => 1.0,
+        _ => 0.0,
+    }
+}
+
 /// Every measured call.
 pub const CASES: &[Case] = &[
+    Case {
+        name: "harness overhead (empty call)",
+        target: None,
+        run: empty,
+    },
+    Case {
+        name: "verdict on a measured decay (7 windows, worst case)",
+        target: Some(50),
+        run: verdict,
+    },
     Case {
         name: "closed-form decay time (ConstantClamp::time_to)",
         target: Some(300),

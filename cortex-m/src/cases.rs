@@ -69,6 +69,25 @@ fn case_junction() -> Result<f32, Error> {
     Ok(path.check(Watts::new(bb(0.2))?)?.junction.celsius())
 }
 
+fn case_verdict() -> Result<f32, Error> {
+    use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
+    use kickguard::diagnosis::{Condition, Verdict};
+    let mut e = [Entry::EMPTY; MAX_WINDOWS];
+    e[0] = Entry { lo: 400, hi: 600, condition: Condition::Healthy };
+    e[1] = Entry { lo: 100, hi: 300, condition: Condition::FreewheelOpen };
+    e[2] = Entry { lo: 250, hi: 350, condition: Condition::ShortedTurns };
+    let w = Windows::from_entries(e, 3);
+    let code = |v: Verdict| match v {
+        Verdict::Healthy => 1.0,
+        Verdict::Fault(Condition::FreewheelOpen) => 2.0,
+        Verdict::Fault(_) => 3.0,
+        Verdict::Ambiguous => 4.0,
+        Verdict::Unexplained => 5.0,
+    };
+    let t = |x: u32| core::hint::black_box(x);
+    Ok(code(w.classify(t(500))) + 10.0 * code(w.classify(t(150))) + 100.0 * code(w.classify(t(275))) + 1000.0 * code(w.classify(t(20))))
+}
+
 fn case_bad_input_is_an_error() -> Result<f32, Error> {
     // Must be an error on the target too: NaN current.
     match Amps::new(bb(f32::NAN)) {
@@ -78,7 +97,7 @@ fn case_bad_input_is_an_error() -> Result<f32, Error> {
 }
 
 /// Number of cases.
-pub const CASES: usize = 9;
+pub const CASES: usize = 10;
 
 /// (name, result) of every case.
 pub fn cases() -> [(&'static str, Result<f32, Error>); CASES] {
@@ -92,5 +111,6 @@ pub fn cases() -> [(&'static str, Result<f32, Error>); CASES] {
         ("winding temperature 64.8 ohm", case_winding_temperature()),
         ("junction temperature 0.2 W", case_junction()),
         ("NaN input rejected", case_bad_input_is_an_error()),
+        ("diagnosis verdicts", case_verdict()),
     ]
 }

@@ -38,16 +38,17 @@ const SERIES_BELOW: f32 = 0.25;
 /// χₙ(x) for n = 0, 1, 2 and x ≥ 0 (see the module docs).
 pub(crate) fn chi(x: f32) -> [f32; 3] {
     if x < SERIES_BELOW {
+        // One pass over k: (−x)ᵏ is shared by the three series.
         let mut out = [0.0f32; 3];
-        for (n, slot) in out.iter_mut().enumerate() {
-            // Horner from the last term: Σ (−x)^k/(n+k+1).
-            let mut acc = 0.0f32;
-            let mut k = SERIES_TERMS;
-            while k > 0 {
-                k -= 1;
-                acc = 1.0 / (n as f32 + k as f32 + 1.0) - x * acc;
-            }
-            *slot = acc;
+        let mut power = 1.0f32;
+        let mut k = 0u32;
+        while k < SERIES_TERMS {
+            let kf = k as f32;
+            out[0] += power / (kf + 1.0);
+            out[1] += power / (kf + 2.0);
+            out[2] += power / (kf + 3.0);
+            power *= -x;
+            k += 1;
         }
         out
     } else {

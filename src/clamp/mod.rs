@@ -279,6 +279,53 @@ impl SwitchOff {
         }
     }
 
+    /// Switch voltage while the coil carries `i` (0 < i ≤ start current) during the decay.
+    ///
+    /// # Errors
+    /// `i` ≤ 0 or above the start current → [`Reason::OutsideValidatedRange`] on `"current"`.
+    pub fn switch_voltage_at(&self, i: Amps) -> Result<Volts, Error> {
+        let ia = i.value();
+        if !(ia > 0.0 && ia <= self.i0) {
+            return Err(Error::new("current", Reason::OutsideValidatedRange));
+        }
+        Volts::new(self.switch_voltage_raw(ia))
+    }
+
+    /// How long the switch voltage stays above `threshold` after switch-off (what a comparator
+    /// on a divider from the switch node measures).
+    ///
+    /// Every clamp voltage rises with current, so the switch voltage falls monotonically during
+    /// the decay; the crossing current solves v_sw(i) = threshold (bracketed Illinois, ≤ 60 steps,
+    /// 1e-6 relative), then the time is [`SwitchOff::time_to`] that current. A threshold at or
+    /// below the voltage the clamp holds as the current vanishes means "until the current is
+    /// gone": the time to zero, finite only for clamps with a constant voltage part.
+    ///
+    /// # Errors
+    /// `threshold` at or above the peak → [`Reason::Unreachable`] on `"threshold"` (the
+    /// comparator never trips); at or below the zero-current level on a path that only tends to
+    /// zero (a plain diode: put the threshold above the supply) → [`Reason::Unreachable`] on
+    /// `"threshold"`.
+    pub fn time_above(&self, threshold: Volts) -> Result<Seconds, Error> {
+        let th = threshold.value();
+        if !(th < self.switch_voltage_raw(self.i0)) {
+            return Err(Error::new("threshold", Reason::Unreachable));
+        }
+        let floor = self.switch_voltage_raw(self.i0 * 1e-9);
+        if th <= floor {
+            return if self.law.v_const() > 0.0 {
+                self.time_to(Amps::raw(0.0))
+            } else {
+                Err(Error::new("threshold", Reason::Unreachable))
+            };
+        }
+        // Solve in ln i: the switch voltage is smooth in it over many decades.
+        let f = |u: f32| self.switch_voltage_raw(math::exp(u)) - th;
+        let u = crate::solve::illinois(f, math::ln(self.i0 * 1e-9), math::ln(self.i0), 1e-6, 60)
+            .ok_or(Error::new("threshold", Reason::Unreachable))?;
+        let i = math::exp(u).min(self.i0 * (1.0 - 1e-6));
+        self.time_to(Amps::new(i)?)
+    }
+
     /// Peak voltage on the switch: at the instant of switch-off, since every clamp voltage rises
     /// with current (see the module table). Exact for the model.
     ///

@@ -385,8 +385,80 @@ fn input_protection() -> Result<(), Error> {
     Ok(())
 }
 
+fn diagnosis() -> Result<(), Error> {
+    use kickguard::diagnosis::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
+    use kickguard::diagnosis::fit::{fit_decay, SampleBuffer};
+    use kickguard::diagnosis::history::VerdictHistory;
+    use kickguard::diagnosis::windows::winding_temperature_from_current;
+    use kickguard::diagnosis::{Condition, Design, Measurement};
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let coil = Coil::copper(Henries::new(bb(0.5))?, Ohms::new(bb(100.0))?, t)?;
+    let design = Design {
+        coil,
+        inductance_tolerance: bb(0.1),
+        resistance_tolerance: bb(0.07),
+        v_supply_min: Volts::new(bb(10.8))?,
+        v_supply_max: Volts::new(bb(13.2))?,
+        t_winding_min: Temperature::from_celsius(bb(-10.0))?,
+        t_winding_max: Temperature::from_celsius(bb(70.0))?,
+        t_winding_fault_max: Temperature::from_celsius(bb(130.0))?,
+        t_clamp_min: Temperature::from_celsius(bb(-10.0))?,
+        t_clamp_max: Temperature::from_celsius(bb(70.0))?,
+        clamp: Clamp::FreewheelDiode(DiodeParams::SILICON),
+        switch_avalanche: Breakdown::ideal(Volts::new(bb(60.0))?)?,
+        shorted_turns: bb(0.2),
+    };
+    let m = if bb(true) {
+        Measurement::BetweenCurrents {
+            upper: Amps::new(bb(0.08))?,
+            lower: Amps::new(bb(0.01))?,
+        }
+    } else {
+        Measurement::SwitchAbove {
+            threshold: Volts::new(bb(14.0))?,
+        }
+    };
+    bb(design.window(Condition::Healthy, &m)?);
+    bb(design.separations(&m)?);
+    let w = design.tick_windows(&m, bb(100_000.0), bb(0.02))?;
+    let v = w.classify(bb(1234));
+    bb(w.entries().count());
+    let mut e = [Entry::EMPTY; MAX_WINDOWS];
+    e[0] = Entry {
+        lo: bb(10),
+        hi: bb(20),
+        condition: Condition::Healthy,
+    };
+    let w2 = Windows::from_entries(e, bb(1));
+    let banded = BandedWindows {
+        upper_edges_deci_c: [bb(250), bb(600)],
+        windows: [w, w2],
+    };
+    bb(banded.classify(bb(300), bb(15)));
+    let mut h: VerdictHistory<8> = VerdictHistory::new();
+    h.push(v);
+    bb((h.consecutive(v), h.confirmed(v, bb(3)), h.latest()));
+    h.clear();
+    let mut buf: SampleBuffer<8> = SampleBuffer::new();
+    for k in 0..8 {
+        let _ = buf.push(Amps::new(bb(0.4 - 0.04 * k as f32))?);
+    }
+    let f = fit_decay(&buf, Seconds::new(bb(1e-3))?)?;
+    bb((
+        f.inductance(Ohms::new(bb(100.0))?)?,
+        f.clamp_voltage(Ohms::new(bb(100.0))?)?,
+    ));
+    bb(winding_temperature_from_current(
+        &coil,
+        Volts::new(bb(12.0))?,
+        Amps::new(bb(0.1))?,
+    )?);
+    Ok(())
+}
+
 #[entry]
 fn main() -> ! {
+    let _ = bb(diagnosis());
     let _ = bb(input_protection());
     let _ = bb(timing_and_pwm());
     #[cfg(feature = "micromath")]

@@ -1,10 +1,11 @@
 //! The run-time API a firmware links: what runs on the controller after configuration. Its flash
 //! size, less `size_baseline`'s, is checked against the budget by `.ci/cross`.
 //!
-//! Run-time API (what DESIGN.md puts on the controller: a few multiplications and at most a
-//! logarithm or a short bounded solve): diode drop and tempco at a measured temperature, the
-//! diode as a thermometer, coil R(T), winding temperature from a measured resistance and steady
-//! current, the closed-form constant-clamp decay (wait time, charge, energies), the thermal check.
+//! Run-time API (what the controller computes while running: a few multiplications and at most a
+//! logarithm or a short bounded solve): diode drop at a measured temperature, the diode as a
+//! thermometer, coil R(T), winding temperature from a measured resistance and steady
+//! current, the closed-form constant-clamp decay (wait time, charge, energies), the thermal check,
+//! the diagnosis verdict on a tick count, the verdict history and the sample-buffer fit.
 //! Configuration-time functions (fits, the full `SwitchOff` engine with its diode-law
 //! quadrature, sizing, the snubber, sampling for plots, the series-resistor solve) are measured
 //! separately as "whole public API".
@@ -19,6 +20,47 @@ use kickguard::diode::DiodeParams;
 use kickguard::rating::ThermalPath;
 use kickguard::{Amps, Error, Henries, Ohms, Temperature, Volts, Watts};
 
+use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
+use kickguard::diagnosis::fit::fit_decay;
+use kickguard::diagnosis::history::VerdictHistory;
+use kickguard::diagnosis::{Condition, Verdict};
+
+/// Diagnosis windows as a firmware holds them: generated constants, built at compile time.
+static WINDOWS: Windows = {
+    let mut e = [Entry::EMPTY; MAX_WINDOWS];
+    e[0] = Entry {
+        lo: 400,
+        hi: 600,
+        condition: Condition::Healthy,
+    };
+    e[1] = Entry {
+        lo: 100,
+        hi: 300,
+        condition: Condition::FreewheelOpen,
+    };
+    Windows::from_entries(e, 2)
+};
+
+/// A sample buffer as the ADC interrupt would have filled it.
+static SAMPLES: [Amps; 8] = {
+    const fn a(x: f32) -> Amps {
+        match Amps::new(x) {
+            Ok(a) => a,
+            Err(_) => panic!("bad constant"),
+        }
+    }
+    [
+        a(0.40),
+        a(0.35),
+        a(0.31),
+        a(0.27),
+        a(0.24),
+        a(0.21),
+        a(0.19),
+        a(0.17),
+    ]
+};
+
 fn run() -> Result<f32, Error> {
     let t = Temperature::from_celsius(bb(25.0))?;
     let d = bb(DiodeParams::SILICON);
@@ -28,7 +70,6 @@ fn run() -> Result<f32, Error> {
         .kelvin();
     let coil = Coil::copper(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?, t)?;
     acc += coil.resistance(t)?.value() + coil.winding_temperature(Ohms::new(bb(60.0))?)?.kelvin();
-    acc += d.forward_tempco_v_per_k(Amps::new(bb(0.4))?, t)?;
     acc += coil.steady_current(Volts::new(bb(24.0))?, t)?.value();
     let decay = ConstantClamp::new(
         coil.inductance(),
@@ -40,6 +81,13 @@ fn run() -> Result<f32, Error> {
     acc += decay.time_to(i0, i1)?.value() + dec.clamp_energy.value() + dec.resistive_energy.value();
     let path = ThermalPath::new(bb(200.0), t, Temperature::from_celsius(bb(150.0))?)?;
     acc += path.check(Watts::new(bb(0.1))?)?.junction.kelvin();
+    let w = bb(&WINDOWS);
+    let mut h: VerdictHistory<4> = VerdictHistory::new();
+    h.push(w.classify(bb(250)));
+    acc += h.confirmed(Verdict::Fault(Condition::FreewheelOpen), bb(3)) as u32 as f32;
+    acc += fit_decay(bb(&SAMPLES[..]), kickguard::Seconds::new(bb(1e-4))?)?
+        .tau
+        .value();
     Ok(acc)
 }
 

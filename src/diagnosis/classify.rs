@@ -1,0 +1,191 @@
+//! Run time: the verdict on a measured tick count, by integer comparisons only.
+//!
+//! The windows come from [`super::windows::Design::tick_windows`] at configuration time (or as
+//! generated constants). The rules, in order:
+//! 1. inside the healthy window → [`Verdict::Healthy`], whatever else overlaps there (a healthy
+//!    measurement is never called a fault inside its own window);
+//! 2. inside exactly one fault window → [`Verdict::Fault`] with that condition;
+//! 3. inside several → [`Verdict::Ambiguous`];
+//! 4. inside none → [`Verdict::Unexplained`] (outside everything the model predicts: suspect the
+//!    measurement or a fault not modelled).
+//!
+//! No floating point, no division, a fixed loop over at most [`MAX_WINDOWS`] entries: it runs in
+//! an interrupt on a core without an FPU (measured: see `cargo bench --bench instructions`).
+
+use super::Condition;
+
+/// Largest number of windows a [`Windows`] holds (one per [`Condition`]).
+pub const MAX_WINDOWS: usize = 7;
+
+/// One window in ticks, inclusive at both ends.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Entry {
+    /// Lowest tick count of the window.
+    pub lo: u32,
+    /// Highest tick count of the window.
+    pub hi: u32,
+    /// The condition it belongs to.
+    pub condition: Condition,
+}
+
+impl Entry {
+    /// An unused slot (never matches: lo > hi).
+    pub const EMPTY: Entry = Entry {
+        lo: 1,
+        hi: 0,
+        condition: Condition::Healthy,
+    };
+}
+
+/// The verdict on one measurement.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Verdict {
+    /// Inside the healthy window.
+    Healthy,
+    /// Inside exactly one fault's window.
+    Fault(Condition),
+    /// Inside several fault windows and not the healthy one.
+    Ambiguous,
+    /// Inside no window at all.
+    Unexplained,
+}
+
+/// The windows a firmware classifies against, in ticks.
+///
+/// Stored for the run-time check: the healthy window apart, the fault windows each as (lowest
+/// tick, span = hi − lo + 1), so that "inside" is one wrapping subtraction and one comparison,
+/// `ticks − lo < span` (wrapping makes a tick count below `lo` a huge number), and an unused
+/// slot (span 0) never matches: the loop runs over every slot without a length test. A window
+/// reaching `u32::MAX` is shortened to end at `u32::MAX − 1`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Windows {
+    healthy: Option<(u32, u32)>,
+    fault_lo: [u32; MAX_WINDOWS],
+    fault_span: [u32; MAX_WINDOWS],
+    fault_condition: [Condition; MAX_WINDOWS],
+    n_faults: usize,
+}
+
+impl Windows {
+    /// Windows from a table (for generated constants): the first `len` entries count (at most
+    /// [`MAX_WINDOWS`]); entries with `lo > hi` never match; if several healthy entries are given,
+    /// the last one counts.
+    pub const fn from_entries(entries: [Entry; MAX_WINDOWS], len: usize) -> Self {
+        let len = if len > MAX_WINDOWS { MAX_WINDOWS } else { len };
+        let mut healthy = None;
+        let mut fault_lo = [0u32; MAX_WINDOWS];
+        let mut fault_span = [0u32; MAX_WINDOWS];
+        let mut fault_condition = [Condition::Healthy; MAX_WINDOWS];
+        let mut n_faults = 0usize;
+        let mut k = 0usize;
+        // Indices are checked against MAX_WINDOWS in the loop condition and before each store,
+        // so no bounds check can fail (const fn cannot use `get`).
+        while k < len && k < MAX_WINDOWS {
+            let e = entries[k];
+            if e.lo <= e.hi && n_faults < MAX_WINDOWS {
+                if matches!(e.condition, Condition::Healthy) {
+                    healthy = Some((e.lo, e.hi - e.lo));
+                } else {
+                    fault_lo[n_faults] = e.lo;
+                    let hi = if e.hi == u32::MAX { u32::MAX - 1 } else { e.hi };
+                    fault_span[n_faults] = hi - e.lo + 1;
+                    fault_condition[n_faults] = e.condition;
+                    n_faults += 1;
+                }
+            }
+            k += 1;
+        }
+        Windows {
+            healthy,
+            fault_lo,
+            fault_span,
+            fault_condition,
+            n_faults,
+        }
+    }
+
+    /// The windows in use, healthy first, as entries (for reports and generated code).
+    pub fn entries(&self) -> impl Iterator<Item = Entry> + '_ {
+        let healthy = self.healthy.map(|(lo, w)| Entry {
+            lo,
+            hi: lo + w,
+            condition: Condition::Healthy,
+        });
+        let faults = self
+            .fault_lo
+            .iter()
+            .zip(self.fault_span.iter())
+            .zip(self.fault_condition.iter())
+            .take(self.n_faults)
+            .map(|((&lo, &span), &c)| Entry {
+                lo,
+                hi: lo + (span - 1),
+                condition: c,
+            });
+        healthy.into_iter().chain(faults)
+    }
+
+    /// The verdict on a measured tick count (integer comparisons only).
+    ///
+    /// ```
+    /// use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
+    /// use kickguard::diagnosis::{Condition, Verdict};
+    /// let mut e = [Entry::EMPTY; MAX_WINDOWS];
+    /// e[0] = Entry { lo: 40, hi: 60, condition: Condition::Healthy };
+    /// e[1] = Entry { lo: 10, hi: 25, condition: Condition::FreewheelOpen };
+    /// let w = Windows::from_entries(e, 2);
+    /// assert_eq!(w.classify(50), Verdict::Healthy);
+    /// assert_eq!(w.classify(12), Verdict::Fault(Condition::FreewheelOpen));
+    /// assert_eq!(w.classify(30), Verdict::Unexplained);
+    /// ```
+    #[inline]
+    pub fn classify(&self, ticks: u32) -> Verdict {
+        if let Some((lo, width)) = self.healthy {
+            if ticks.wrapping_sub(lo) <= width {
+                return Verdict::Healthy;
+            }
+        }
+        let mut hits = 0u32;
+        let mut found = 0usize;
+        for (k, (&lo, &span)) in self.fault_lo.iter().zip(self.fault_span.iter()).enumerate() {
+            let inside = ticks.wrapping_sub(lo) < span;
+            hits += inside as u32;
+            found = if inside { k } else { found };
+        }
+        match (hits, self.fault_condition.get(found)) {
+            (1, Some(c)) => Verdict::Fault(*c),
+            (0, _) | (_, None) => Verdict::Unexplained,
+            _ => Verdict::Ambiguous,
+        }
+    }
+}
+
+/// Windows per temperature band: the measured winding (or board) temperature selects a narrower
+/// set of windows. Bands are given by their upper edge in tenths of a degree Celsius, in
+/// increasing order; the last band also takes everything above its edge.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct BandedWindows<const B: usize> {
+    /// Upper edge of each band, in 0.1 °C.
+    pub upper_edges_deci_c: [i16; B],
+    /// The windows of each band.
+    pub windows: [Windows; B],
+}
+
+impl<const B: usize> BandedWindows<B> {
+    /// The verdict on `ticks` with the windows of the band holding `temp_deci_c` (integer only).
+    /// With no bands (`B` = 0) nothing is known: [`Verdict::Unexplained`].
+    pub fn classify(&self, temp_deci_c: i16, ticks: u32) -> Verdict {
+        let mut chosen = None;
+        for (edge, w) in self.upper_edges_deci_c.iter().zip(self.windows.iter()) {
+            chosen = Some(w);
+            if temp_deci_c <= *edge {
+                break;
+            }
+        }
+        chosen.map_or(Verdict::Unexplained, |w| w.classify(ticks))
+    }
+}

@@ -1,0 +1,70 @@
+//! Diagnosis from a measured decay: is the suppression healthy, has the freewheeling diode gone
+//! open, is the zener shorted, the coil open, turns shorted, the winding too hot?
+//!
+//! Two halves, as in the rest of the crate:
+//!
+//! - **Configuration time** ([`windows`]): from a design and its tolerances ([`Design`]), the
+//!   window of measurements a healthy circuit can show and the window of each fault, found by
+//!   evaluating the clamp engine at every corner of the tolerances; whether the windows can be
+//!   told apart at all, with the gap; and the windows in timer ticks, per temperature band.
+//! - **Run time** ([`classify`]): the verdict on a measured tick count is integer comparisons
+//!   against those windows (no floating point, so it runs in an interrupt on a core without an
+//!   FPU); [`history`] requires N consecutive faults before the firmware acts; [`fit`] estimates
+//!   τ and the clamp voltage from a buffer of current samples; [`hal`] times the flyback with an
+//!   output pin, a sense input and a delay (`embedded-hal` 1.0).
+//!
+//! Fault models (each replaces one part of the healthy circuit, all else equal):
+//!
+//! | condition | model |
+//! |---|---|
+//! | freewheeling diode open | the clamp path is gone: the switch avalanches at its breakdown |
+//! | zener shorted | a zener + diode clamp becomes a plain freewheeling diode: slower |
+//! | zener/TVS open | the zener's path is gone: the switch avalanches |
+//! | coil open | no current, nothing to measure: a zero reading |
+//! | shorted turns | a fraction f of the turns shorted: L·(1 − f)², R·(1 − f) |
+//! | coil too hot | the winding above its allowed temperature (R higher, current lower) |
+//!
+//! The on-current also tells the winding's temperature directly: see
+//! [`windows::winding_temperature_from_current`].
+
+pub mod classify;
+pub mod fit;
+pub mod hal;
+pub mod history;
+pub mod windows;
+
+pub use classify::{Verdict, Windows};
+pub use windows::{Design, Measurement};
+
+/// What state of the circuit a measurement window belongs to.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum Condition {
+    /// Everything as designed, within tolerances.
+    Healthy,
+    /// The freewheeling (clamp) diode has failed open.
+    FreewheelOpen,
+    /// The zener of a zener + diode clamp has failed short.
+    ZenerShorted,
+    /// The zener or TVS has failed open.
+    ZenerOpen,
+    /// The coil winding is open: no current.
+    CoilOpen,
+    /// Part of the winding is shorted.
+    ShortedTurns,
+    /// The winding is hotter than allowed.
+    CoilTooHot,
+}
+
+impl Condition {
+    /// Every condition, healthy first.
+    pub const ALL: [Condition; 7] = [
+        Condition::Healthy,
+        Condition::FreewheelOpen,
+        Condition::ZenerShorted,
+        Condition::ZenerOpen,
+        Condition::CoilOpen,
+        Condition::ShortedTurns,
+        Condition::CoilTooHot,
+    ];
+}
