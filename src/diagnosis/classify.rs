@@ -73,6 +73,7 @@ impl Windows {
     /// Windows from a table (for generated constants): the first `len` entries count (at most
     /// [`MAX_WINDOWS`]); entries with `lo > hi` never match; if several healthy entries are given,
     /// the last one counts.
+    #[allow(clippy::indexing_slicing)] // const fn: `get` is unavailable; indices guarded below
     pub const fn from_entries(entries: [Entry; MAX_WINDOWS], len: usize) -> Self {
         let len = if len > MAX_WINDOWS { MAX_WINDOWS } else { len };
         let mut healthy = None;
