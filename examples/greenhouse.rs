@@ -13,6 +13,7 @@ use kickguard::clamp::sizing::ZenerSizing;
 use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
 use kickguard::clamp::{Clamp, SwitchOff};
 use kickguard::coil::Coil;
+use kickguard::diagnosis::{Design, Measurement};
 use kickguard::diode::DiodeParams;
 use kickguard::input::board::{Board, BoardInput};
 use kickguard::input::rail::{rail_off_check, shared_clamp};
@@ -346,6 +347,68 @@ fn main() -> Result<(), Error> {
         "with a Schottky to the rail on a drain line at 66 V: internal diode {:.3} mA, Schottky {:.3} mA",
         sh.internal.value() * 1e3,
         sh.external.value() * 1e3
+    );
+
+    // Diagnosis of a valve driver: comparator on the drain at 30 V (above the 26.4 V supply).
+    println!();
+    println!("== valve diagnosis: time the drain stays above a threshold after switch-off, 10 kHz ticks, 5 % guard");
+    let design = Design {
+        coil: valve,
+        inductance_tolerance: 0.1,
+        resistance_tolerance: 0.07,
+        v_supply_min: Volts::new(21.6)?,
+        v_supply_max: Volts::new(26.4)?,
+        t_winding_min: cold,
+        t_winding_max: hot,
+        t_winding_fault_max: Temperature::from_celsius(130.0)?,
+        t_clamp_min: cold,
+        t_clamp_max: hot,
+        clamp: Clamp::ZenerDiode { zener: z18, diode },
+        switch_avalanche: avalanche,
+        shorted_turns: 0.2,
+    };
+    // Two comparators on the drain divider: one at 30 V times the flyback, one at 55 V (above the
+    // healthy clamp's 47 V peak) catches the avalanche of an open clamp.
+    for threshold in [30.0f32, 55.0] {
+        let m = Measurement::SwitchAbove {
+            threshold: Volts::new(threshold)?,
+        };
+        let (healthy, seps) = design.separations(&m)?;
+        println!("-- drain above {threshold} V");
+        println!(
+            "healthy            {:>6.2} … {:>6.2} ms",
+            healthy.min.value() * 1e3,
+            healthy.max.value() * 1e3
+        );
+        for s in &seps {
+            println!(
+                "{:<18} {:>6.2} … {:>6.2} ms   {}",
+                format!("{:?}", s.condition),
+                s.window.min.value() * 1e3,
+                s.window.max.value() * 1e3,
+                if s.detectable {
+                    format!("detectable, gap {:.2} ms", s.gap * 1e3)
+                } else {
+                    format!(
+                        "NOT detectable by this measurement (overlap {:.2} ms)",
+                        (-s.gap).max(0.0) * 1e3
+                    )
+                }
+            );
+        }
+        let w = design.tick_windows(&m, 10_000.0, 0.05)?;
+        let table: Vec<String> = w
+            .entries()
+            .map(|e| format!("{:?} {}…{}", e.condition, e.lo, e.hi))
+            .collect();
+        println!("run-time windows (ticks): {}", table.join(", "));
+    }
+    let i_meas = Amps::new(0.36)?;
+    let tw =
+        kickguard::diagnosis::windows::winding_temperature_from_current(&valve, v_valve, i_meas)?;
+    println!(
+        "on-current 0.36 A at 24 V → winding at {:.0} °C (allowed up to 80 °C)",
+        tw.celsius()
     );
 
     println!();
