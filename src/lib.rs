@@ -31,7 +31,13 @@
 //! 6. Diagnosis: [`diagnosis`] (healthy and fault windows of a measured decay over the tolerances,
 //!    their separability, an integer-only run-time verdict, a history of verdicts, a
 //!    least-squares fit of τ and the clamp voltage, an `embedded-hal` flyback timer).
-//! 7. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+//! 7. The configuration step (feature `host`, std): [`host`](crate#features) reads a design file,
+//!    checks it over its corners, sizes open values and writes a report, plots and constants.
+//! 8. Errors: every fallible call returns [`Error`], naming the input and the [`Reason`].
+
+// The host tool needs std; the no_std build never sees it.
+#[cfg(feature = "host")]
+extern crate std;
 
 pub mod breakdown;
 pub mod clamp;
@@ -41,6 +47,8 @@ pub mod diode;
 pub mod error;
 #[cfg(feature = "micromath")]
 pub mod fast;
+#[cfg(feature = "host")]
+pub mod host;
 pub mod input;
 mod math;
 pub mod physics;

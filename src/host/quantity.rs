@@ -1,0 +1,205 @@
+//! Quantities with units in design files: `"350 mH"`, `"56 Ω"`, `"4.7 kohm"`, `"-10 °C"`,
+//! `"25 K"`, `"10 %"`, `"0.08 %/K"`, `"20 kHz"`, `"62 K/W"`, `"1 µA"`.
+//!
+//! Grammar: a decimal number, optional spaces, then the unit, optionally preceded by one SI
+//! prefix (p, n, u or µ, m, k, M). A bare number is refused for any dimensional field, so that
+//! "350" meant as millihenries cannot slip through as 350 H.
+
+use std::format;
+use std::string::String;
+
+/// The unit a field expects.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Unit {
+    /// volts
+    Volt,
+    /// amperes
+    Amp,
+    /// ohms
+    Ohm,
+    /// henries
+    Henry,
+    /// farads
+    Farad,
+    /// seconds
+    Second,
+    /// joules
+    Joule,
+    /// watts
+    Watt,
+    /// hertz
+    Hertz,
+    /// a temperature point in °C
+    Celsius,
+    /// a temperature interval in K
+    Kelvin,
+    /// a dimensionless fraction written in %
+    Percent,
+    /// a relative temperature coefficient in %/K
+    PercentPerKelvin,
+    /// a thermal resistance in K/W
+    KelvinPerWatt,
+}
+
+impl Unit {
+    /// Accepted spellings of the unit (without prefix), longest first where one ends another.
+    fn symbols(self) -> &'static [&'static str] {
+        match self {
+            Unit::Volt => &["V"],
+            Unit::Amp => &["A"],
+            Unit::Ohm => &["ohm", "Ω", "Ohm"],
+            Unit::Henry => &["H"],
+            Unit::Farad => &["F"],
+            Unit::Second => &["s"],
+            Unit::Joule => &["J"],
+            Unit::Watt => &["W"],
+            Unit::Hertz => &["Hz"],
+            Unit::Celsius => &["°C", "degC"],
+            Unit::Kelvin => &["K"],
+            Unit::Percent => &["%"],
+            Unit::PercentPerKelvin => &["%/K"],
+            Unit::KelvinPerWatt => &["K/W"],
+        }
+    }
+
+    /// Whether SI prefixes are allowed.
+    fn prefixable(self) -> bool {
+        !matches!(
+            self,
+            Unit::Celsius
+                | Unit::Kelvin
+                | Unit::Percent
+                | Unit::PercentPerKelvin
+                | Unit::KelvinPerWatt
+        )
+    }
+
+    /// An example for error messages.
+    pub fn example(self) -> &'static str {
+        match self {
+            Unit::Volt => "\"24 V\"",
+            Unit::Amp => "\"150 mA\"",
+            Unit::Ohm => "\"4.7 kΩ\" or \"4.7 kohm\"",
+            Unit::Henry => "\"350 mH\"",
+            Unit::Farad => "\"100 nF\"",
+            Unit::Second => "\"8 ms\"",
+            Unit::Joule => "\"50 mJ\"",
+            Unit::Watt => "\"1 W\"",
+            Unit::Hertz => "\"20 kHz\"",
+            Unit::Celsius => "\"-10 °C\" or \"-10 degC\"",
+            Unit::Kelvin => "\"25 K\"",
+            Unit::Percent => "\"10 %\"",
+            Unit::PercentPerKelvin => "\"0.08 %/K\"",
+            Unit::KelvinPerWatt => "\"62 K/W\"",
+        }
+    }
+}
+
+fn prefix_factor(c: &str) -> Option<f64> {
+    Some(match c {
+        "p" => 1e-12,
+        "n" => 1e-9,
+        "u" | "µ" | "μ" => 1e-6,
+        "m" => 1e-3,
+        "k" => 1e3,
+        "M" => 1e6,
+        _ => return None,
+    })
+}
+
+/// Parses `text` as a quantity in `unit`; returns the value in the SI unit (°C stays °C; % and
+/// %/K are returned as fractions: "10 %" → 0.1).
+///
+/// # Errors
+/// A message saying what is wrong, with an example of the expected form.
+pub fn parse(text: &str, unit: Unit) -> Result<f64, String> {
+    let t = text.trim();
+    let (num, rest) = t.split_at(number_prefix_len(t));
+    let value: f64 = num.parse().map_err(|_| {
+        format!(
+            "\"{text}\" does not start with a number; expected e.g. {}",
+            unit.example()
+        )
+    })?;
+    if !value.is_finite() {
+        return Err(format!("\"{text}\" is not a finite number"));
+    }
+    let rest = rest.trim();
+    if rest.is_empty() {
+        return Err(format!(
+            "\"{text}\" has no unit; expected e.g. {}",
+            unit.example()
+        ));
+    }
+    for sym in unit.symbols() {
+        if rest == *sym {
+            return Ok(scale(value, unit));
+        }
+        if unit.prefixable() {
+            if let Some(p) = rest.strip_suffix(sym) {
+                if let Some(f) = prefix_factor(p) {
+                    return Ok(scale(value * f, unit));
+                }
+            }
+        }
+    }
+    Err(format!(
+        "unit \"{rest}\" in \"{text}\" is not a unit of this field; expected e.g. {}",
+        unit.example()
+    ))
+}
+
+/// Length in bytes of the leading decimal number: sign, digits and point, and an exponent only
+/// when digits follow the `e` (so "5 e" is not misread).
+fn number_prefix_len(t: &str) -> usize {
+    let b = t.as_bytes();
+    let at = |i: usize| b.get(i).copied().unwrap_or(0);
+    let digits = |mut i: usize| {
+        while at(i).is_ascii_digit() || at(i) == b'.' {
+            i += 1;
+        }
+        i
+    };
+    let mut i = if at(0) == b'+' || at(0) == b'-' { 1 } else { 0 };
+    i = digits(i);
+    if at(i) == b'e' || at(i) == b'E' {
+        let mut j = i + 1;
+        if at(j) == b'+' || at(j) == b'-' {
+            j += 1;
+        }
+        if at(j).is_ascii_digit() {
+            i = digits(j);
+        }
+    }
+    i
+}
+
+fn scale(v: f64, unit: Unit) -> f64 {
+    match unit {
+        Unit::Percent | Unit::PercentPerKelvin => v / 100.0,
+        _ => v,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn parses_prefixes_and_units() {
+        assert_eq!(parse("350 mH", Unit::Henry), Ok(0.35));
+        assert!((parse("4.7 kΩ", Unit::Ohm).unwrap() - 4700.0).abs() < 1e-9);
+        assert!((parse("4.7kohm", Unit::Ohm).unwrap() - 4700.0).abs() < 1e-9);
+        assert_eq!(parse("-10 °C", Unit::Celsius), Ok(-10.0));
+        assert_eq!(parse("10 %", Unit::Percent), Ok(0.1));
+        assert!((parse("0.08 %/K", Unit::PercentPerKelvin).unwrap() - 0.0008).abs() < 1e-12);
+        assert_eq!(parse("20 kHz", Unit::Hertz), Ok(20_000.0));
+        assert!((parse("1 µA", Unit::Amp).unwrap() - 1e-6).abs() < 1e-15);
+        assert_eq!(parse("1e-3 s", Unit::Second), Ok(1e-3));
+        assert_eq!(parse("62 K/W", Unit::KelvinPerWatt), Ok(62.0));
+        assert!(parse("350", Unit::Henry).unwrap_err().contains("no unit"));
+        assert!(parse("350 mHz", Unit::Henry).unwrap_err().contains("mHz"));
+        assert!(parse("abc V", Unit::Volt).unwrap_err().contains("number"));
+        assert!(parse("5 mK", Unit::Kelvin).is_err());
+    }
+}
