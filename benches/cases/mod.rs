@@ -158,12 +158,11 @@ static WINDOWS: kickguard::diagnosis::Windows = {
             e(10, Healthy),
             e(110, FreewheelOpen),
             e(210, ZenerShorted),
-            e(310, ZenerOpen),
             e(410, CoilOpen),
             e(510, ShortedTurns),
             e(610, CoilTooHot),
         ],
-        7,
+        6,
     )
 };
 
@@ -189,7 +188,7 @@ pub const CASES: &[Case] = &[
         run: empty,
     },
     Case {
-        name: "verdict on a measured decay (7 windows, worst case)",
+        name: "verdict on a measured decay (6 windows, worst case)",
         target: Some(50),
         run: verdict,
     },

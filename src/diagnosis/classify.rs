@@ -15,7 +15,7 @@
 use super::Condition;
 
 /// Largest number of windows a [`Windows`] holds (one per [`Condition`]).
-pub const MAX_WINDOWS: usize = 7;
+pub const MAX_WINDOWS: usize = 6;
 
 /// One window in ticks, inclusive at both ends.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -106,6 +106,29 @@ impl Windows {
             fault_condition,
             n_faults,
         }
+    }
+
+    /// Windows from the rows of a generated table, `[lowest tick, highest tick, condition code]`
+    /// (as written by the configuration step). Rows with an unknown code or beyond
+    /// [`MAX_WINDOWS`] are ignored.
+    ///
+    /// ```
+    /// use kickguard::diagnosis::{Condition, Verdict, Windows};
+    /// const ROWS: [[u32; 3]; 2] = [[29, 74, 0], [16, 45, 1]];
+    /// let w = Windows::from_rows(&ROWS);
+    /// assert_eq!(w.classify(20), Verdict::Fault(Condition::FreewheelOpen));
+    /// ```
+    pub fn from_rows(rows: &[[u32; 3]]) -> Self {
+        let mut entries = [Entry::EMPTY; MAX_WINDOWS];
+        let mut n = 0usize;
+        for [lo, hi, code] in rows.iter().copied() {
+            if let (Some(condition), Some(slot)) = (Condition::from_code(code), entries.get_mut(n))
+            {
+                *slot = Entry { lo, hi, condition };
+                n += 1;
+            }
+        }
+        Windows::from_entries(entries, n)
     }
 
     /// The windows in use, healthy first, as entries (for reports and generated code).

@@ -17,9 +17,8 @@
 //!
 //! | condition | model |
 //! |---|---|
-//! | freewheeling diode open | the clamp path is gone: the switch avalanches at its breakdown |
+//! | clamp path open (freewheeling diode, zener or TVS) | the switch avalanches at its breakdown |
 //! | zener shorted | a zener + diode clamp becomes a plain freewheeling diode: slower |
-//! | zener/TVS open | the zener's path is gone: the switch avalanches |
 //! | coil open | no current, nothing to measure: a zero reading |
 //! | shorted turns | a fraction f of the turns shorted: L·(1 − f)², R·(1 − f) |
 //! | coil too hot | the winding above its allowed temperature (R higher, current lower) |
@@ -42,12 +41,12 @@ pub use windows::{Design, Measurement};
 pub enum Condition {
     /// Everything as designed, within tolerances.
     Healthy,
-    /// The freewheeling (clamp) diode has failed open.
+    /// The clamp path has failed open: the freewheeling diode, or the zener or TVS (in a zener +
+    /// diode clamp either part opening breaks the same series path; a TVS alone is the path),
+    /// so the switch avalanches.
     FreewheelOpen,
     /// The zener of a zener + diode clamp has failed short.
     ZenerShorted,
-    /// The zener or TVS has failed open.
-    ZenerOpen,
     /// The coil winding is open: no current.
     CoilOpen,
     /// Part of the winding is shorted.
@@ -57,12 +56,37 @@ pub enum Condition {
 }
 
 impl Condition {
+    /// The condition's code in generated tables (0 healthy, 1 clamp path open, 2 zener shorted,
+    /// 3 coil open, 4 shorted turns, 5 coil too hot).
+    pub const fn code(self) -> u32 {
+        match self {
+            Condition::Healthy => 0,
+            Condition::FreewheelOpen => 1,
+            Condition::ZenerShorted => 2,
+            Condition::CoilOpen => 3,
+            Condition::ShortedTurns => 4,
+            Condition::CoilTooHot => 5,
+        }
+    }
+
+    /// The condition of a code from a generated table, if the code is known.
+    pub const fn from_code(code: u32) -> Option<Condition> {
+        Some(match code {
+            0 => Condition::Healthy,
+            1 => Condition::FreewheelOpen,
+            2 => Condition::ZenerShorted,
+            3 => Condition::CoilOpen,
+            4 => Condition::ShortedTurns,
+            5 => Condition::CoilTooHot,
+            _ => return None,
+        })
+    }
+
     /// Every condition, healthy first.
-    pub const ALL: [Condition; 7] = [
+    pub const ALL: [Condition; 6] = [
         Condition::Healthy,
         Condition::FreewheelOpen,
         Condition::ZenerShorted,
-        Condition::ZenerOpen,
         Condition::CoilOpen,
         Condition::ShortedTurns,
         Condition::CoilTooHot,

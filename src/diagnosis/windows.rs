@@ -165,12 +165,6 @@ impl Design {
                 }
                 _ => None,
             },
-            Condition::ZenerOpen => match self.clamp {
-                Clamp::ZenerDiode { .. } | Clamp::SwitchZener(_) => {
-                    Some((av, 1.0, 1.0, tmin, tmax))
-                }
-                _ => None,
-            },
             Condition::CoilOpen => None,
             Condition::ShortedTurns => {
                 Some((self.clamp, (1.0 - f) * (1.0 - f), 1.0 - f, tmin, tmax))
@@ -269,14 +263,14 @@ impl Design {
     }
 
     /// Every applicable fault's window beside the healthy one, with the gap between them.
-    /// Returns the healthy window and up to six separations (in [`Condition::ALL`] order).
+    /// Returns the healthy window and up to five separations (in [`Condition::ALL`] order).
     ///
     /// # Errors
     /// As [`Design::window`].
     pub fn separations(
         &self,
         m: &Measurement,
-    ) -> Result<(TimeWindow, heapless::Vec<Separation, 6>), Error> {
+    ) -> Result<(TimeWindow, heapless::Vec<Separation, 5>), Error> {
         let healthy = self
             .window(Condition::Healthy, m)?
             .ok_or(Error::new("clamp", Reason::Inconsistent))?;
@@ -293,7 +287,7 @@ impl Design {
                     relative_gap: gap / width,
                     detectable: gap > 0.0,
                 };
-                // Capacity 6 = the number of faults: cannot overflow.
+                // Capacity 5 = the number of faults: cannot overflow.
                 let _ = out.push(sep);
             }
         }

@@ -1476,26 +1476,17 @@ pub fn ident(name: &str) -> String {
     s
 }
 
-/// The code of a condition in generated tables.
+/// The code of a condition in generated tables (see [`Condition::code`]).
 pub fn condition_code(c: Condition) -> u32 {
-    match c {
-        Condition::Healthy => 0,
-        Condition::FreewheelOpen => 1,
-        Condition::ZenerShorted => 2,
-        Condition::ZenerOpen => 3,
-        Condition::CoilOpen => 4,
-        Condition::ShortedTurns => 5,
-        Condition::CoilTooHot => 6,
-    }
+    c.code()
 }
 
 /// A readable name of a condition.
 pub fn condition_name(c: Condition) -> &'static str {
     match c {
         Condition::Healthy => "healthy",
-        Condition::FreewheelOpen => "freewheeling diode open",
+        Condition::FreewheelOpen => "clamp path open (diode, zener or TVS)",
         Condition::ZenerShorted => "zener shorted",
-        Condition::ZenerOpen => "zener/TVS open",
         Condition::CoilOpen => "coil open",
         Condition::ShortedTurns => "shorted turns",
         Condition::CoilTooHot => "coil too hot",
