@@ -131,14 +131,22 @@ pub fn parse(text: &str, unit: Unit) -> Result<f64, String> {
             unit.example()
         ));
     }
+    let finite = |v: f64| {
+        if v.is_finite() {
+            Ok(v)
+        } else {
+            Err(format!("\"{text}\" is too large"))
+        }
+    };
     for sym in unit.symbols() {
         if rest == *sym {
-            return Ok(scale(value, unit));
+            return finite(scale(value, unit));
         }
         if unit.prefixable() {
             if let Some(p) = rest.strip_suffix(sym) {
                 if let Some(f) = prefix_factor(p) {
-                    return Ok(scale(value * f, unit));
+                    // A prefix can push a finite number past f64's range ("4e307 kΩ").
+                    return finite(scale(value * f, unit));
                 }
             }
         }
@@ -201,5 +209,9 @@ mod tests {
         assert!(parse("350 mHz", Unit::Henry).unwrap_err().contains("mHz"));
         assert!(parse("abc V", Unit::Volt).unwrap_err().contains("number"));
         assert!(parse("5 mK", Unit::Kelvin).is_err());
+        // Found by fuzzing: a prefix that overflows f64.
+        assert!(parse("4.e307kΩ", Unit::Ohm)
+            .unwrap_err()
+            .contains("too large"));
     }
 }
