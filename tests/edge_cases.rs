@@ -29,26 +29,9 @@ fn coil(l: f32, r: f32) -> Coil {
     .unwrap()
 }
 
-/// f64 Simpson in u = ln i of L·i/g(i) from i1 to i0.
+/// f64 Simpson in u = ln i of L·i/g(i) from i1 to i0 (tests/common), 40 000 intervals.
 fn simpson_time(l: f64, i0: f64, i1: f64, g: &dyn Fn(f64) -> f64) -> f64 {
-    let n = 40_000;
-    let (u0, u1) = (i0.ln(), i1.ln());
-    let h = (u0 - u1) / n as f64;
-    (0..=n)
-        .map(|k| {
-            let w = if k == 0 || k == n {
-                1.0
-            } else if k % 2 == 1 {
-                4.0
-            } else {
-                2.0
-            };
-            let i = (u1 + k as f64 * h).exp();
-            w * l * i / g(i)
-        })
-        .sum::<f64>()
-        * h
-        / 3.0
+    common::simpson_decay(l, i0, i1, 40_000, g)[0]
 }
 
 #[test]

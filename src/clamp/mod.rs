@@ -121,6 +121,19 @@ pub struct Sample {
     pub switch_voltage: Volts,
 }
 
+/// Checks the start current and the supply of a switch-off (both must be positive).
+pub(crate) fn start_and_supply(i_start: Amps, v_supply: Volts) -> Result<(f32, f32), Error> {
+    let i0 = i_start.value();
+    if !(i0 > 0.0) {
+        return Err(Error::new("start current", Reason::NotPositive));
+    }
+    let vs = v_supply.value();
+    if !(vs > 0.0) {
+        return Err(Error::new("supply voltage", Reason::NotPositive));
+    }
+    Ok((i0, vs))
+}
+
 /// The switch's role, so energies land on the right device.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -173,14 +186,7 @@ impl SwitchOff {
         t_coil: Temperature,
         t_clamp: Temperature,
     ) -> Result<Self, Error> {
-        let i0 = i_start.value();
-        if !(i0 > 0.0) {
-            return Err(Error::new("start current", Reason::NotPositive));
-        }
-        let vs = v_supply.value();
-        if !(vs > 0.0) {
-            return Err(Error::new("supply voltage", Reason::NotPositive));
-        }
+        let (i0, vs) = start_and_supply(i_start, v_supply)?;
         let r_coil = coil.resistance(t_coil)?.value();
         let tc = checked_t("clamp temperature", t_clamp)?;
         let diode_at = |d: &DiodeParams| DiodeAt {

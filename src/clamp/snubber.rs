@@ -156,14 +156,7 @@ impl SnubberSwitchOff {
         i_start: Amps,
         t_coil: Temperature,
     ) -> Result<Self, Error> {
-        let i0 = i_start.value();
-        if !(i0 > 0.0) {
-            return Err(Error::new("start current", Reason::NotPositive));
-        }
-        let vs = v_supply.value();
-        if !(vs > 0.0) {
-            return Err(Error::new("supply voltage", Reason::NotPositive));
-        }
+        let (i0, vs) = super::start_and_supply(i_start, v_supply)?;
         let r_c = coil.resistance(t_coil)?.value();
         let l = coil.inductance().value();
         let r_s = snubber.resistor.value();

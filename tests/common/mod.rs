@@ -34,3 +34,26 @@ pub fn v64(d: &DiodeParams, i: f64, t_k: f64) -> f64 {
     let x = (i.ln() - ln_is64(d, t_k)).exp();
     n * vt64(t_k) * x.ln_1p() + i * d.rs().value() as f64
 }
+
+/// Decay integrals of L·di/dt = −g(i) from `i0` down to `i1` by composite Simpson's rule in
+/// u = ln i with `n` (even) intervals, f64: returns [t, Q, ∫i²dt].
+pub fn simpson_decay(l: f64, i0: f64, i1: f64, n: usize, g: &dyn Fn(f64) -> f64) -> [f64; 3] {
+    let (u0, u1) = (i0.ln(), i1.ln());
+    let h = (u0 - u1) / n as f64;
+    let mut acc = [0.0f64; 3];
+    for k in 0..=n {
+        let w = if k == 0 || k == n {
+            1.0
+        } else if k % 2 == 1 {
+            4.0
+        } else {
+            2.0
+        };
+        let i = (u1 + k as f64 * h).exp();
+        let dt = l * i / g(i) * w * h / 3.0;
+        acc[0] += dt;
+        acc[1] += dt * i;
+        acc[2] += dt * i * i;
+    }
+    acc
+}
