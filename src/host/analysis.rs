@@ -8,7 +8,7 @@
 
 use super::design::{DesignFile, Driver, Input, Reader, Q};
 use super::quantity::Unit;
-use super::report::{Check, Constant, DriverPlot, PlotSeries, Report, Status, WindowTable};
+use super::report::{Check, Constant, DriverPlot, PlotSeries, Report, WindowTable};
 use super::HostError;
 use crate::breakdown::{Breakdown, BreakdownLaw};
 use crate::clamp::sizing::ZenerSizing;
@@ -1399,7 +1399,7 @@ fn analyse_inputs(
         "every input at its worst transient at once",
         "",
     ));
-    if let (Some(v), Some(load)) = (rep.rail_on, rail_load) {
+    if let (Some(_), Some(load)) = (rep.rail_on, rail_load) {
         let steady: f32 = rep.inputs.iter().map(|i| i.steady_positive.value()).sum();
         let c = Check::against(
             "board",
@@ -1410,7 +1410,6 @@ fn analyse_inputs(
             "every input at its steady maximum",
             "a regulator cannot sink: above the load the rail rises",
         );
-        debug_assert_eq!(c.status == Status::Pass, v.pass);
         cx.report.checks.push(c);
     }
     Ok(())
