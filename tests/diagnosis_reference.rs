@@ -292,6 +292,14 @@ fn fit_recovers_tau_and_clamp_from_textbook_decay() {
     let r = Ohms::new(56.0).unwrap();
     assert!((f.inductance(r).unwrap().value() - 0.35).abs() < 1e-3);
     assert!((f.clamp_voltage(r).unwrap().value() - 22.4).abs() < 0.05);
+    // The clamp kind: 22.4 V is the zener clamp's, not a diode's or an avalanche's.
+    let kinds = [
+        Volts::new(0.8).unwrap(),
+        Volts::new(22.0).unwrap(),
+        Volts::new(42.0).unwrap(),
+    ];
+    assert_eq!(f.closest_clamp(r, &kinds).unwrap(), Some(1));
+    assert_eq!(f.closest_clamp(r, &[]).unwrap(), None);
     // Bad buffers.
     assert_eq!(
         fit_decay(&s[..2], Seconds::new(1e-3).unwrap())
@@ -318,6 +326,43 @@ fn fit_recovers_tau_and_clamp_from_textbook_decay() {
             .reason,
         Reason::TooFew
     );
+}
+
+#[test]
+fn temperature_bands_narrow_the_healthy_window() {
+    // Narrower winding range per band → each band's healthy window lies inside the full one
+    // (the corner analysis over a subset of corners; checked against the ODE in the test above).
+    let d = design();
+    let m = Measurement::BetweenCurrents {
+        upper: a(0.080),
+        lower: a(0.010),
+    };
+    let full = d.tick_windows(&m, 100_000.0, 0.0).unwrap();
+    let banded = d
+        .banded_tick_windows(&m, 100_000.0, 0.0, [tc(30.0), tc(70.0)])
+        .unwrap();
+    let healthy = |w: &kickguard::diagnosis::Windows| {
+        w.entries()
+            .find(|e| e.condition == Condition::Healthy)
+            .unwrap()
+    };
+    let f = healthy(&full);
+    for w in &banded.windows {
+        let h = healthy(w);
+        assert!(
+            h.lo >= f.lo && h.hi <= f.hi && h.hi - h.lo < f.hi - f.lo,
+            "{h:?} vs {f:?}"
+        );
+    }
+    assert_eq!(banded.upper_edges_deci_c, [300, 700]);
+    assert_eq!(
+        banded.classify(250, healthy(&banded.windows[0]).lo),
+        Verdict::Healthy
+    );
+    let e = d
+        .banded_tick_windows(&m, 100_000.0, 0.0, [tc(50.0), tc(40.0)])
+        .unwrap_err();
+    assert_eq!(e.reason, Reason::NotIncreasing);
 }
 
 #[test]

@@ -53,7 +53,8 @@ fn brent_current(d: &DiodeParams, volts: f64, r: f64, t_k: f64) -> f64 {
 #[test]
 fn two_diode_limiter_holds_about_six_to_eight_tenths_of_a_volt() {
     // Common practice: antiparallel silicon diodes to ground hold a line at about ±0.6–0.8 V.
-    let limiter = si_pin(0.0, 25.0);
+    let limiter =
+        Pin::limiter_to_ground(PinClamp::DiodeLaw(DiodeParams::SILICON), tc(25.0)).unwrap();
     for &vs in &[5.0f32, 10.0, 24.0] {
         let up = limiter.pin_voltage(v(vs), ohm(10_000.0)).unwrap().value();
         let down = limiter.pin_voltage(v(-vs), ohm(10_000.0)).unwrap().value();
@@ -332,7 +333,9 @@ fn bad_inputs_are_named() {
         SignalRange::new(v(0.0), v(5.0), v(1.0), v(5.0), Seconds::new(1e-3).unwrap()).unwrap_err();
     assert_eq!(e.input, "transient range");
     let e = Pin::new(v(-3.3), PinClamp::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
-    assert_eq!((e.input, e.reason), ("pin supply", Reason::Negative));
+    assert_eq!((e.input, e.reason), ("pin supply", Reason::NotPositive));
+    let e = Pin::new(v(0.0), PinClamp::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
+    assert_eq!((e.input, e.reason), ("pin supply", Reason::NotPositive));
     let e = Pin::new(v(3.3), PinClamp::FixedDrop(v(0.0)), tc(25.0)).unwrap_err();
     assert_eq!(e.input, "clamp drop");
     let pin = si_pin(3.3, 25.0);

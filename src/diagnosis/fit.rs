@@ -9,7 +9,8 @@
 //!
 //! (substitute t + h into i(t) = (I₀ + Vc/R)·e^(−t/τ) − Vc/R). Ordinary least squares of i[k+1]
 //! on i[k] estimates α and β with no derivative approximation; then τ = −h/ln α and
-//! Vc/R = −β/(1 − α). With R known (from the on-current), L = τ·R and Vc = R·(Vc/R). For a diode
+//! Vc/R = −β/(1 − α). With R known (from the on-current), L = τ·R and Vc = R·(Vc/R), and the
+//! clamp kind is the candidate whose voltage is closest ([`DecayFit::closest_clamp`]). For a diode
 //! clamp, whose voltage is not constant, the fit returns the effective values over the samples.
 //! Sums are taken about the means (two passes) for f32 stability; work is fixed: two passes over
 //! the buffer.
@@ -43,6 +44,27 @@ impl DecayFit {
     /// A product beyond the quantity bounds → the errors of [`Volts::new`].
     pub fn clamp_voltage(&self, r: Ohms) -> Result<Volts, Error> {
         Volts::new(self.clamp_over_r * r.value())
+    }
+}
+
+impl DecayFit {
+    /// Which of the clamp voltages in `candidates` (what each possible clamp would put across
+    /// the coil: for example a diode's ≈ 0.8 V, the zener clamp's Vz + V_F, an avalanche's
+    /// V_BR − V_supply) the fitted clamp voltage is closest to, with `r` the loop resistance.
+    /// Returns the index, or None for an empty list.
+    ///
+    /// # Errors
+    /// As [`DecayFit::clamp_voltage`].
+    pub fn closest_clamp(&self, r: Ohms, candidates: &[Volts]) -> Result<Option<usize>, Error> {
+        let vc = self.clamp_voltage(r)?.value();
+        let mut best: Option<(usize, f32)> = None;
+        for (k, c) in candidates.iter().enumerate() {
+            let d = (c.value() - vc).abs();
+            if best.is_none_or(|(_, b)| d < b) {
+                best = Some((k, d));
+            }
+        }
+        Ok(best.map(|(k, _)| k))
     }
 }
 

@@ -8,7 +8,7 @@
 //! (The tests check this against a dense interior grid.) The on-current is V/R(T); the switch's
 //! own on-resistance is taken as part of the coil resistance tolerance.
 
-use super::classify::{Entry, Windows, MAX_WINDOWS};
+use super::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
 use super::Condition;
 use crate::breakdown::Breakdown;
 use crate::clamp::{Clamp, SwitchOff};
@@ -292,6 +292,52 @@ impl Design {
             }
         }
         Ok((healthy, out))
+    }
+
+    /// Windows per band of winding temperature, for [`BandedWindows`]: band k covers the
+    /// windings from the previous edge (the first from `t_winding_min`) up to `upper_edges[k]`,
+    /// each with its own, narrower, healthy window. The too-hot fault keeps its own range. A
+    /// firmware that measures the winding (or board) temperature then classifies against the
+    /// band that holds it.
+    ///
+    /// # Errors
+    /// Edges not increasing, or outside the design's winding range → [`Reason::NotIncreasing`]
+    /// / [`Reason::OutsideValidatedRange`] on `"band edges"`; errors of
+    /// [`Design::tick_windows`].
+    pub fn banded_tick_windows<const B: usize>(
+        &self,
+        m: &Measurement,
+        tick_hz: f32,
+        guard: f32,
+        upper_edges: [Temperature; B],
+    ) -> Result<BandedWindows<B>, Error> {
+        let mut out = BandedWindows {
+            upper_edges_deci_c: [0i16; B],
+            windows: [Windows::from_entries([Entry::EMPTY; MAX_WINDOWS], 0); B],
+        };
+        let mut lo = self.t_winding_min;
+        for (k, edge) in upper_edges.iter().enumerate() {
+            if !(*edge > lo) {
+                return Err(Error::new("band edges", Reason::NotIncreasing));
+            }
+            if !(*edge <= self.t_winding_max) {
+                return Err(Error::new("band edges", Reason::OutsideValidatedRange));
+            }
+            let band = Design {
+                t_winding_min: lo,
+                t_winding_max: *edge,
+                t_winding_fault_max: self.t_winding_fault_max,
+                ..*self
+            };
+            let deci = libm::roundf(edge.celsius() * 10.0);
+            if let (Some(e), Some(w)) = (out.upper_edges_deci_c.get_mut(k), out.windows.get_mut(k))
+            {
+                *e = deci as i16;
+                *w = band.tick_windows(m, tick_hz, guard)?;
+            }
+            lo = *edge;
+        }
+        Ok(out)
     }
 
     /// The run-time windows in timer ticks at `tick_hz`: each window widened outward to whole

@@ -42,7 +42,8 @@ pub enum PinClamp {
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Pin {
-    /// Supply voltage of the pin's I/O domain (the upper clamp's rail), ≥ 0 (0 V: rail off).
+    /// Supply voltage of the pin's I/O domain (the upper clamp's rail); 0 V only for a limiter to
+    /// ground or the unpowered-rail check.
     pub vdd: Volts,
     /// The clamp diodes.
     pub clamp: PinClamp,
@@ -124,16 +125,30 @@ impl SignalRange {
 }
 
 impl Pin {
-    /// A pin with supply `vdd` (0 V allowed: an unpowered rail), clamp diodes `clamp`, at `t`.
+    /// A pin with supply `vdd`, clamp diodes `clamp`, at `t`.
     ///
     /// # Errors
-    /// `vdd` < 0 → [`Reason::Negative`] on `"pin supply"`; a fixed drop ≤ 0 →
-    /// [`Reason::NotPositive`] on `"clamp drop"`; `t` outside the diode model's range →
-    /// [`Reason::OutsideValidatedRange`] on `"temperature"`.
+    /// `vdd` ≤ 0 → [`Reason::NotPositive`] on `"pin supply"` (for the unpowered rail use
+    /// [`rail::rail_off_check`]; for a pair of diodes to ground, [`Pin::limiter_to_ground`]); a
+    /// fixed drop ≤ 0 → [`Reason::NotPositive`] on `"clamp drop"`; `t` outside the diode model's
+    /// range → [`Reason::OutsideValidatedRange`] on `"temperature"`.
     pub fn new(vdd: Volts, clamp: PinClamp, t: Temperature) -> Result<Self, Error> {
-        if vdd.value() < 0.0 {
-            return Err(Error::new("pin supply", Reason::Negative));
+        if !(vdd.value() > 0.0) {
+            return Err(Error::new("pin supply", Reason::NotPositive));
         }
+        Pin::checked(vdd, clamp, t)
+    }
+
+    /// A two-diode limiter: antiparallel clamp diodes from the node to ground (the "rail" is
+    /// ground), which hold the node within a diode drop of 0 V either way.
+    ///
+    /// # Errors
+    /// As [`Pin::new`], without the supply check.
+    pub fn limiter_to_ground(clamp: PinClamp, t: Temperature) -> Result<Self, Error> {
+        Pin::checked(Volts::raw(0.0), clamp, t)
+    }
+
+    fn checked(vdd: Volts, clamp: PinClamp, t: Temperature) -> Result<Self, Error> {
         if let PinClamp::FixedDrop(v) = clamp {
             if !(v.value() > 0.0) {
                 return Err(Error::new("clamp drop", Reason::NotPositive));

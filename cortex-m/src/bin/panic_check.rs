@@ -312,6 +312,7 @@ fn input_protection() -> Result<(), Error> {
         PinClamp::FixedDrop(Volts::new(bb(0.3))?)
     };
     let pin = Pin::new(Volts::new(bb(3.0))?, clamp, t)?;
+    bb(Pin::limiter_to_ground(clamp, t)?.injection(Volts::new(bb(5.0))?, Ohms::new(bb(1e3))?)?);
     let r = Ohms::new(bb(10_000.0))?;
     let s = SignalRange::new(
         Volts::new(bb(0.0))?,
@@ -421,6 +422,12 @@ fn diagnosis() -> Result<(), Error> {
     bb(design.window(Condition::Healthy, &m)?);
     bb(design.separations(&m)?);
     let w = design.tick_windows(&m, bb(100_000.0), bb(0.02))?;
+    bb(design.banded_tick_windows(
+        &m,
+        bb(100_000.0),
+        bb(0.02),
+        [Temperature::from_celsius(bb(30.0))?],
+    )?);
     let v = w.classify(bb(1234));
     bb(w.entries().count());
     let mut e = [Entry::EMPTY; MAX_WINDOWS];
