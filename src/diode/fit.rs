@@ -21,7 +21,7 @@
 //! 0.1…3 eV) and the fitted law must reproduce each given point within 1 mV. Points that
 //! contradict the model are an error, never a silent fit.
 
-use super::params::{checked_t, DiodeParams};
+use super::params::{check_eg_xti, checked_t, DiodeParams};
 use crate::error::{Error, Reason};
 use crate::math;
 use crate::physics::vt_at;
@@ -116,18 +116,6 @@ fn verify(p: &DiodeParams, t_k: f32, points: &[DropPoint]) -> Result<(), Error> 
     Ok(())
 }
 
-fn check_params(eg_ev: f32, xti: f32) -> Result<(), Error> {
-    let eg = crate::error::finite("EG", eg_ev)?;
-    if !(0.0..=5.0).contains(&eg) {
-        return Err(Error::new("EG", Reason::OutsideValidatedRange));
-    }
-    let xti = crate::error::finite("XTI", xti)?;
-    if !(-20.0..=20.0).contains(&xti) {
-        return Err(Error::new("XTI", Reason::OutsideValidatedRange));
-    }
-    Ok(())
-}
-
 /// Fits IS and N to two (I, V) points measured at temperature `t`, with RS, EG and XTI given.
 /// TNOM of the result is `t`.
 ///
@@ -159,7 +147,7 @@ pub fn fit_two_points(
     xti: f32,
 ) -> Result<DiodeParams, Error> {
     let t_k = checked_t("temperature", t)?;
-    check_params(eg_ev, xti)?;
+    check_eg_xti(eg_ev, xti)?;
     let (i1, v1) = check_point(&points[0])?;
     let (i2, v2) = check_point(&points[1])?;
     if !(i2 > i1) {
@@ -215,7 +203,7 @@ pub fn fit_three_points(
     xti: f32,
 ) -> Result<DiodeParams, Error> {
     let t_k = checked_t("temperature", t)?;
-    check_params(eg_ev, xti)?;
+    check_eg_xti(eg_ev, xti)?;
     let (i1, v1) = check_point(&points[0])?;
     let (i2, v2) = check_point(&points[1])?;
     let (i3, v3) = check_point(&points[2])?;

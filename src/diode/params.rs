@@ -100,14 +100,7 @@ impl DiodeParams {
         if !(0.3..=10.0).contains(&n) {
             return Err(Error::new("N", Reason::OutsideValidatedRange));
         }
-        let eg_ev = crate::error::finite("EG", eg_ev)?;
-        if !(0.0..=5.0).contains(&eg_ev) {
-            return Err(Error::new("EG", Reason::OutsideValidatedRange));
-        }
-        let xti = crate::error::finite("XTI", xti)?;
-        if !(-20.0..=20.0).contains(&xti) {
-            return Err(Error::new("XTI", Reason::OutsideValidatedRange));
-        }
+        check_eg_xti(eg_ev, xti)?;
         let tnom_k = tnom.kelvin();
         if !(T_MIN_K..=T_MAX_K).contains(&tnom_k) {
             return Err(Error::new("TNOM", Reason::OutsideValidatedRange));
@@ -155,6 +148,20 @@ impl DiodeParams {
     pub fn tnom(&self) -> Temperature {
         Temperature::raw_kelvin(self.tnom_k)
     }
+}
+
+/// Checks EG (0…5 eV) and XTI (−20…20) against the accepted ranges of [`DiodeParams::new`];
+/// shared with the fits, which take both as given.
+pub(crate) fn check_eg_xti(eg_ev: f32, xti: f32) -> Result<(), Error> {
+    let eg = crate::error::finite("EG", eg_ev)?;
+    if !(0.0..=5.0).contains(&eg) {
+        return Err(Error::new("EG", Reason::OutsideValidatedRange));
+    }
+    let xti = crate::error::finite("XTI", xti)?;
+    if !(-20.0..=20.0).contains(&xti) {
+        return Err(Error::new("XTI", Reason::OutsideValidatedRange));
+    }
+    Ok(())
 }
 
 /// Checks an evaluation temperature against the validated range and returns it in kelvin.
