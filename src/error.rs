@@ -66,6 +66,15 @@ impl Error {
     pub const fn new(input: &'static str, reason: Reason) -> Self {
         Error { input, reason }
     }
+
+    /// The same reason, blamed on `input` (for errors of an inner call that the caller knows
+    /// came from one of its own arguments).
+    pub const fn on(self, input: &'static str) -> Self {
+        Error {
+            input,
+            reason: self.reason,
+        }
+    }
 }
 
 impl fmt::Display for Reason {
@@ -90,9 +99,35 @@ impl fmt::Display for Reason {
     }
 }
 
+impl Reason {
+    /// A stable small code for this reason (1…14), for logs and the C interface; never 0.
+    pub const fn code(self) -> u8 {
+        match self {
+            Reason::NotFinite => 1,
+            Reason::NotPositive => 2,
+            Reason::Negative => 3,
+            Reason::TooLarge => 4,
+            Reason::TooSmall => 5,
+            Reason::BelowAbsoluteZero => 6,
+            Reason::OutsideValidatedRange => 7,
+            Reason::NotIncreasing => 8,
+            Reason::NotDecreasing => 9,
+            Reason::TooFew => 10,
+            Reason::Inconsistent => 11,
+            Reason::CannotClamp => 12,
+            Reason::Unreachable => 13,
+            Reason::Overflow => 14,
+        }
+    }
+}
+
 impl fmt::Display for Error {
+    /// "`input` `reason`", for example "forward current must be greater than zero". Written with
+    /// `write_str` only, so it has no panic path on the target.
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        write!(f, "{} {}", self.input, self.reason)
+        f.write_str(self.input)?;
+        f.write_str(" ")?;
+        fmt::Display::fmt(&self.reason, f)
     }
 }
 
@@ -126,6 +161,17 @@ pub(crate) const fn non_negative(input: &'static str, x: f32) -> Result<f32, Err
         Ok(x) if x >= 0.0 => Ok(x),
         Ok(_) => Err(Error::new(input, Reason::Negative)),
         Err(e) => Err(e),
+    }
+}
+
+/// Checks that `x` is finite and within `lo ..= hi` (the range a model is validated for).
+pub(crate) const fn within(input: &'static str, x: f32, lo: f32, hi: f32) -> Result<f32, Error> {
+    if !x.is_finite() {
+        Err(Error::new(input, Reason::NotFinite))
+    } else if x >= lo && x <= hi {
+        Ok(x)
+    } else {
+        Err(Error::new(input, Reason::OutsideValidatedRange))
     }
 }
 

@@ -92,13 +92,13 @@ pub fn forward_drop(d: &DiodeParams, i: Amps, t: Temperature) -> Result<Volts, E
         + (ratio - 1.0) * d.eg_ev / (d.n * vt_at(t_k));
     let a = ln(i_a, "forward current")? - ln_is_t;
     let v = d.n * vt_at(t_k) * ln_1p_exp(a)? + i_a * d.rs_ohm;
-    Volts::new(v).map_err(|e| Error::new("forward drop", e.reason))
+    crate::diode::forward::positive_result("forward drop", v).map(Volts::raw)
 }
 
 /// Time of [`ConstantClamp::time_to`] on the micromath backend: within 0.2 % of the libm result.
 ///
 /// # Errors
 /// As [`ConstantClamp::time_to`].
-pub fn constant_clamp_time(c: &ConstantClamp, i0: Amps, i1: Amps) -> Result<Seconds, Error> {
-    c.time_to_with(i0, i1, |x| ln(1.0 + x, "fast ln"))
+pub fn constant_clamp_time(c: &ConstantClamp, i_end: Amps) -> Result<Seconds, Error> {
+    c.time_to_with(i_end, |x| ln(1.0 + x, "fast ln"))
 }

@@ -21,9 +21,11 @@
 //!    [`TempDelta`] interval) and [`physics`] constants.
 //! 2. Device models: [`diode`] (forward drop over temperature, its inverse, fitting), [`coil`]
 //!    (L, R(T), winding temperature, pull-in margin) and [`breakdown`] (zener, TVS, avalanche).
-//! 3. Circuit behaviour: [`clamp`] (the decay after switch-off for seven suppression topologies:
-//!    time, charge, energy per device, peak switch voltage, samples for plots, zener sizing) and
-//!    [`rating`] (single-pulse energy, average power, junction temperature, repetition rate).
+//!    [`varistor`] is the power-law clamp device.
+//! 3. Circuit behaviour: [`clamp`] (the decay after switch-off for every suppression topology,
+//!    low side or high side: times to any currents in one pass, charge, energy per device, peak
+//!    switch and output voltages, samples for plots, zener sizing) and [`rating`] (single-pulse
+//!    energy, average power, junction temperature, repetition rate).
 //! 4. Input protection: [`input`] (a pin's clamp diodes fed through a series resistor: injection,
 //!    the resistor window, rail back-powering on and off, an external clamp, a whole board).
 //! 5. Timing: [`timing`] (release time, off-time, reversal wait, repetition rate, timer ticks) and
@@ -57,8 +59,10 @@ pub mod rating;
 mod solve;
 pub mod timing;
 pub mod units;
+pub mod varistor;
 
 pub use error::{Error, Reason};
 pub use units::{
-    Amps, Coulombs, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts, Watts,
+    Amps, Coulombs, Duty, Farads, Henries, Hertz, Joules, Ohms, PerKelvin, Seconds, TempDelta,
+    Temperature, Volts, Watts,
 };

@@ -12,7 +12,7 @@
 //! Every verdict carries a margin: capacity / demand − 1 (≥ 0 passes).
 
 use crate::error::{self, Error, Reason};
-use crate::units::{Joules, Seconds, TempDelta, Temperature, Watts};
+use crate::units::{Hertz, Joules, Seconds, TempDelta, Temperature, Watts};
 
 /// A pass/fail verdict with its margin, capacity/demand − 1 (0.25 = 25 % to spare; negative fails).
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -20,21 +20,21 @@ use crate::units::{Joules, Seconds, TempDelta, Temperature, Watts};
 pub struct Verdict {
     /// True when the demand is within the capacity.
     pub pass: bool,
-    /// capacity / demand − 1.
+    /// capacity / demand − 1 (at most 1e12, for a zero demand).
     pub margin: f32,
 }
 
 impl Verdict {
     /// Compares a demand against a capacity (both ≥ 0, same unit).
-    ///
-    /// # Errors
-    /// A capacity ≤ 0 → [`Reason::NotPositive`] on `capacity_name`; a negative demand →
-    /// [`Reason::Negative`] on `"demand"`.
-    pub fn of(demand: f32, capacity: f32, capacity_name: &'static str) -> Result<Self, Error> {
-        if !(capacity > 0.0) {
+    pub(crate) fn of(
+        demand: f32,
+        capacity: f32,
+        capacity_name: &'static str,
+    ) -> Result<Self, Error> {
+        if !(capacity > 0.0 && capacity.is_finite()) {
             return Err(Error::new(capacity_name, Reason::NotPositive));
         }
-        if !(demand >= 0.0) {
+        if !(demand >= 0.0 && demand.is_finite()) {
             return Err(Error::new("demand", Reason::Negative));
         }
         // A zero demand is an infinite margin; report the largest finite quantity instead.
@@ -50,37 +50,70 @@ impl Verdict {
     }
 }
 
+/// A device's single-pulse energy rating (for example a MOSFET's E_AS, a TVS's pulse energy).
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct PulseRating(Joules);
+
+impl PulseRating {
+    /// A rating of `e` (> 0).
+    ///
+    /// # Errors
+    /// `e` ≤ 0 → [`Reason::NotPositive`] on `"pulse energy rating"`.
+    pub fn new(e: Joules) -> Result<Self, Error> {
+        if e.value() > 0.0 {
+            Ok(PulseRating(e))
+        } else {
+            Err(Error::new("pulse energy rating", Reason::NotPositive))
+        }
+    }
+
+    /// The rated energy.
+    pub fn energy(&self) -> Joules {
+        self.0
+    }
+}
+
 /// One decay's energy against a single-pulse rating.
 ///
 /// # Errors
-/// As [`Verdict::of`], capacity named `"pulse energy rating"`.
+/// A negative energy → [`Reason::Negative`] on `"demand"`.
 ///
 /// ```
-/// use kickguard::{rating::single_pulse, Joules};
-/// let v = single_pulse(Joules::new(0.03).unwrap(), Joules::new(0.1).unwrap()).unwrap();
+/// use kickguard::{rating::{single_pulse, PulseRating}, Joules};
+/// let v = single_pulse(Joules::new(0.03)?, PulseRating::new(Joules::new(0.1)?)?)?;
 /// assert!(v.pass && (v.margin - 2.333).abs() < 1e-3);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
-pub fn single_pulse(energy: Joules, rating: Joules) -> Result<Verdict, Error> {
-    Verdict::of(energy.value(), rating.value(), "pulse energy rating")
+pub fn single_pulse(energy: Joules, rating: PulseRating) -> Result<Verdict, Error> {
+    Verdict::of(energy.value(), rating.0.value(), "pulse energy rating")
 }
 
-/// Average power of `energy` deposited `rate_hz` times a second: P = E·f.
+/// Average power of `energy` deposited `rate` times a second: P = E·f.
 ///
 /// # Errors
-/// A negative or non-finite rate → [`Reason::Negative`] / [`Reason::NotFinite`] on
-/// `"repetition rate"`.
-pub fn average_power(energy: Joules, rate_hz: f32) -> Result<Watts, Error> {
-    let f = error::non_negative("repetition rate", rate_hz)?;
-    Watts::new(energy.value() * f)
+/// A product outside the quantity bounds → [`Reason::TooLarge`] / [`Reason::TooSmall`] on
+/// `"product"`.
+pub fn average_power(energy: Joules, rate: Hertz) -> Result<Watts, Error> {
+    energy * rate
 }
 
-/// A junction-to-ambient thermal path and the junction's limit.
+/// Lowest and highest temperature of a thermal path, °C (−100 … 400 °C: ambient to a silicon
+/// carbide junction's limit with room to spare).
+const PATH_RANGE_K: (f32, f32) = (173.15, 673.15);
+
+/// A junction-to-ambient thermal path and the junction's limit. Fields are public for readable
+/// literals; every method validates them first (the two temperatures are named, so they cannot
+/// be swapped silently).
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct ThermalPath {
-    rth_k_per_w: f32,
-    ambient: Temperature,
-    tj_max: Temperature,
+    /// R_th(j-a), K/W (1e-3 … 1e5).
+    pub resistance_k_per_w: f32,
+    /// The ambient the path ends at (−100 … 400 °C).
+    pub ambient: Temperature,
+    /// The junction's limit, above the ambient (−100 … 400 °C).
+    pub junction_max: Temperature,
 }
 
 /// Result of a thermal check.
@@ -96,69 +129,81 @@ pub struct ThermalCheck {
 }
 
 impl ThermalPath {
-    /// A path of `rth_k_per_w` (K/W) from junction to an ambient at `ambient`, with the junction
-    /// allowed up to `tj_max`.
-    ///
-    /// # Errors
-    /// R_th ≤ 0 → [`Reason::NotPositive`] on `"thermal resistance"`; `tj_max` ≤ `ambient` →
-    /// [`Reason::Inconsistent`] on `"maximum junction temperature"`.
-    pub fn new(rth_k_per_w: f32, ambient: Temperature, tj_max: Temperature) -> Result<Self, Error> {
-        let rth = error::positive("thermal resistance", rth_k_per_w)?;
-        if !(tj_max.kelvin() > ambient.kelvin()) {
+    /// Validates the path: (R_th, T_a, T_j,max) in kelvin units.
+    fn checked(&self) -> Result<(f32, f32, f32), Error> {
+        let rth = error::within("thermal resistance", self.resistance_k_per_w, 1e-3, 1e5)?;
+        let ta = error::within(
+            "ambient",
+            self.ambient.kelvin(),
+            PATH_RANGE_K.0,
+            PATH_RANGE_K.1,
+        )?;
+        let tj = error::within(
+            "maximum junction temperature",
+            self.junction_max.kelvin(),
+            PATH_RANGE_K.0,
+            PATH_RANGE_K.1,
+        )?;
+        if !(tj > ta) {
             return Err(Error::new(
                 "maximum junction temperature",
                 Reason::Inconsistent,
             ));
         }
-        Ok(ThermalPath {
-            rth_k_per_w: rth,
-            ambient,
-            tj_max,
-        })
+        Ok((rth, ta, tj))
     }
 
-    /// Largest continuous power: (T_j,max − T_a)/R_th.
-    pub fn max_power(&self) -> Watts {
-        Watts::raw((self.tj_max.kelvin() - self.ambient.kelvin()) / self.rth_k_per_w)
+    /// Largest continuous power: (T_j,max − T_a)/R_th (at most 5e5 W within the ranges).
+    ///
+    /// # Errors
+    /// A field outside its range → [`Reason::OutsideValidatedRange`] naming it
+    /// (`"thermal resistance"`, `"ambient"`, `"maximum junction temperature"`); T_j,max at or
+    /// below the ambient → [`Reason::Inconsistent`] on `"maximum junction temperature"`.
+    pub fn max_power(&self) -> Result<Watts, Error> {
+        let (rth, ta, tj) = self.checked()?;
+        Watts::new((tj - ta) / rth)
     }
 
     /// Junction temperature and verdict at average power `p`.
     ///
     /// # Errors
-    /// `p` < 0 → [`Reason::Negative`] on `"power"`.
+    /// As [`ThermalPath::max_power`]; `p` < 0 → [`Reason::Negative`] on `"power"`; a junction
+    /// temperature beyond the quantity bounds → [`Reason::TooLarge`] on `"temperature (K)"`.
     ///
     /// ```
     /// use kickguard::rating::ThermalPath;
     /// use kickguard::{Temperature, Watts};
-    /// let path = ThermalPath::new(250.0, Temperature::from_celsius(55.0).unwrap(),
-    ///                             Temperature::from_celsius(150.0).unwrap()).unwrap();
-    /// let c = path.check(Watts::new(0.2).unwrap()).unwrap();
+    /// let path = ThermalPath { resistance_k_per_w: 250.0, ambient: Temperature::from_celsius(55.0)?,
+    ///                          junction_max: Temperature::from_celsius(150.0)? };
+    /// let c = path.check(Watts::new(0.2)?)?;
     /// assert!((c.junction.celsius() - 105.0).abs() < 1e-3);
     /// assert!(c.verdict.pass);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn check(&self, p: Watts) -> Result<ThermalCheck, Error> {
+        let (rth, ta, tj) = self.checked()?;
         let pw = p.value();
         if !(pw >= 0.0) {
             return Err(Error::new("power", Reason::Negative));
         }
-        let rise = pw * self.rth_k_per_w;
-        let junction = Temperature::from_kelvin(self.ambient.kelvin() + rise)?;
-        let allowed = self.tj_max.kelvin() - self.ambient.kelvin();
+        let rise = pw * rth;
+        let junction = Temperature::from_kelvin(ta + rise)?;
         Ok(ThermalCheck {
             junction,
-            headroom: TempDelta::from_kelvin(self.tj_max.kelvin() - junction.kelvin())?,
-            verdict: Verdict::of(rise, allowed, "maximum junction temperature")?,
+            headroom: TempDelta::from_kelvin(tj - junction.kelvin())?,
+            verdict: Verdict::of(rise, tj - ta, "maximum junction temperature")?,
         })
     }
 
-    /// Fastest safe repetition rate, in hertz, for pulses of `energy` that each need `decay`
-    /// to die out: the smaller of the thermal limit P_max/E and 1/decay (the current must be gone
-    /// before the next switch-off can start another full decay; the on-time is extra).
+    /// Fastest safe repetition rate for pulses of `energy` that each need `decay` to die out:
+    /// the smaller of the thermal limit P_max/E and 1/decay (the current must be gone before
+    /// the next switch-off can start another full decay; the on-time is extra).
     ///
     /// # Errors
-    /// `energy` ≤ 0 → [`Reason::NotPositive`] on `"pulse energy"`; `decay` = 0 →
-    /// [`Reason::NotPositive`] on `"decay time"`.
-    pub fn max_repetition_rate_hz(&self, energy: Joules, decay: Seconds) -> Result<f32, Error> {
+    /// As [`ThermalPath::max_power`]; `energy` ≤ 0 → [`Reason::NotPositive`] on
+    /// `"pulse energy"`; `decay` = 0 → [`Reason::NotPositive`] on `"decay time"`; a rate beyond
+    /// the quantity bounds → the errors of [`Hertz::new`] on `"repetition rate"`.
+    pub fn max_repetition_rate(&self, energy: Joules, decay: Seconds) -> Result<Hertz, Error> {
         let e = energy.value();
         if !(e > 0.0) {
             return Err(Error::new("pulse energy", Reason::NotPositive));
@@ -167,7 +212,7 @@ impl ThermalPath {
         if !(td > 0.0) {
             return Err(Error::new("decay time", Reason::NotPositive));
         }
-        let thermal = self.max_power().value() / e;
-        error::result("repetition rate", thermal.min(1.0 / td))
+        let thermal = self.max_power()?.value() / e;
+        Hertz::new(thermal.min(1.0 / td)).map_err(|err| err.on("repetition rate"))
     }
 }

@@ -5,36 +5,38 @@
 //! the time from de-energising the coil to the opening of the contacts. Here it is modelled as
 //! the electrical decay of the coil current from its on-value to the release current plus the
 //! mechanical release time the designer gives (armature travel and contact bounce are in the
-//! latter). The release current follows from the must-release voltage: a relay releases when its
-//! coil current falls below V_release/R(T), so a hot coil (higher R) releases at a *lower*
-//! current, which makes the decay longer.
+//! latter).
+//!
+//! The release current belongs to the magnetic circuit: the relay drops out when its ampere-turns
+//! fall below a fixed level, so the datasheet's must-release voltage, stated at the datasheet's
+//! reference temperature, is the current V_release/R_ref ([`Coil::magnetic_current`]) at every
+//! winding temperature. (Taking V_release/R(T) instead would let a cold coil "release" at a
+//! higher current, an optimistic error.) The slowest release is then the one that starts from the
+//! largest on-current: cold winding, high supply, low R.
 //!
 //! Every wait is rounded *up* when converted to ticks, so the firmware never waits too short.
 
 use crate::clamp::SwitchOff;
 use crate::coil::Coil;
 use crate::error::{self, Error, Reason};
-use crate::units::{Amps, Seconds, Temperature, Volts};
+use crate::units::{Amps, Hertz, Joules, Seconds, Volts, Watts};
 
-/// Release current of a relay whose must-release voltage is `v_release` (the coil voltage below
-/// which it is guaranteed to drop out), with the winding at `t`: I = V_release/R(T).
+/// Release current of a relay whose must-release voltage (at the datasheet's reference
+/// temperature) is `v_release`: I = V_release/R_ref, the same at every winding temperature.
 ///
 /// # Errors
-/// `v_release` ≤ 0 → [`Reason::NotPositive`] on `"must-release voltage"`; errors of
-/// [`Coil::resistance`].
+/// `v_release` ≤ 0 → [`Reason::NotPositive`] on `"must-release voltage"`.
 ///
 /// ```
 /// use kickguard::{coil::Coil, timing::release_current, Henries, Ohms, Temperature, Volts};
-/// let t20 = Temperature::from_celsius(20.0).unwrap();
-/// let relay = Coil::copper(Henries::new(0.9).unwrap(), Ohms::new(160.0).unwrap(), t20).unwrap();
-/// let i = release_current(&relay, Volts::new(1.2).unwrap(), t20).unwrap();
+/// let relay = Coil::copper(Henries::new(0.9)?, Ohms::new(160.0)?, Temperature::from_celsius(20.0)?)?;
+/// let i = release_current(&relay, Volts::new(1.2)?)?;
 /// assert!((i.value() - 0.0075).abs() < 1e-6);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
-pub fn release_current(coil: &Coil, v_release: Volts, t: Temperature) -> Result<Amps, Error> {
-    if !(v_release.value() > 0.0) {
-        return Err(Error::new("must-release voltage", Reason::NotPositive));
-    }
-    v_release.over(coil.resistance(t)?)
+pub fn release_current(coil: &Coil, v_release: Volts) -> Result<Amps, Error> {
+    coil.magnetic_current(v_release)
+        .map_err(|e| e.on("must-release voltage"))
 }
 
 /// The parts of a release time.
@@ -56,20 +58,22 @@ pub struct ReleaseTime {
 ///
 /// # Errors
 /// `i_release` at or above the start current → [`Reason::Unreachable`] on `"end current"` (the
-/// relay would not hold); other errors of [`SwitchOff::time_to`].
+/// relay would not hold); other errors of [`SwitchOff::time_to`]; a total beyond the quantity
+/// bounds → [`Reason::TooLarge`] on `"sum"`.
 ///
 /// ```
-/// use kickguard::clamp::{Clamp, SwitchOff};
+/// use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 /// use kickguard::timing::{release_current, release_time};
-/// use kickguard::{coil::Coil, diode::DiodeParams, Henries, Ohms, Seconds, Temperature, Volts};
-/// let t = Temperature::from_celsius(20.0).unwrap();
-/// let relay = Coil::copper(Henries::new(0.9).unwrap(), Ohms::new(160.0).unwrap(), t).unwrap();
-/// let v = Volts::new(12.0).unwrap();
-/// let off = SwitchOff::new(&relay, &Clamp::FreewheelDiode(DiodeParams::SILICON), v,
-///                          relay.steady_current(v, t).unwrap(), t, t).unwrap();
-/// let i_rel = release_current(&relay, Volts::new(1.2).unwrap(), t).unwrap();
-/// let r = release_time(&off, i_rel, Seconds::new(8e-3).unwrap()).unwrap();
+/// use kickguard::{coil::Coil, diode::{Diode, DiodeParams}, Henries, Ohms, Seconds, Temperature, Volts};
+/// let t = Temperature::from_celsius(20.0)?;
+/// let relay = Coil::copper(Henries::new(0.9)?, Ohms::new(160.0)?, t)?;
+/// let v = Volts::new(12.0)?;
+/// let op = Operating::uniform(v, relay.steady_current(v, t)?, t);
+/// let off = SwitchOff::new(&relay, &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)), Side::Low, &op)?;
+/// let i_rel = release_current(&relay, Volts::new(1.2)?)?;
+/// let r = release_time(&off, i_rel, Seconds::new(8e-3)?)?;
 /// assert!(r.total.value() > 0.008 + 0.009);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 pub fn release_time(
     off: &SwitchOff,
@@ -77,11 +81,10 @@ pub fn release_time(
     mechanical: Seconds,
 ) -> Result<ReleaseTime, Error> {
     let electrical = off.time_to(i_release)?;
-    let total = error::result("release time", electrical.value() + mechanical.value())?;
     Ok(ReleaseTime {
         electrical,
         mechanical,
-        total: Seconds::new(total)?,
+        total: Seconds::new(electrical.value() + mechanical.value()).map_err(|e| e.on("sum"))?,
     })
 }
 
@@ -95,49 +98,56 @@ pub fn reversal_wait(off: &SwitchOff, threshold: Amps) -> Result<Seconds, Error>
     off.time_to(threshold)
 }
 
-/// Fastest safe repetition rate of on/off cycles, in hertz: each cycle needs `on_time` plus the
-/// release time (or any decay the cycle must wait for), and the energy each switch-off puts into
-/// a device must not exceed what its thermal path can remove (`max_power_w / energy_per_cycle`).
+/// Fastest safe repetition rate of on/off cycles: each cycle lasts at least `min_period` (its
+/// on-time plus the release time, or whatever decay the cycle must wait for), and the energy
+/// each switch-off puts into a device must not exceed what its thermal path can remove:
+/// f = min(1/T_min, P_max/E).
 ///
 /// # Errors
-/// `on_time` + `cycle_wait` = 0 → [`Reason::NotPositive`] on `"cycle time"`; `energy_j` ≤ 0 or
-/// `max_power_w` ≤ 0 → [`Reason::NotPositive`] naming them.
-pub fn max_repetition_rate_hz(
-    on_time: Seconds,
-    cycle_wait: Seconds,
-    energy_j: f32,
-    max_power_w: f32,
-) -> Result<f32, Error> {
-    let period = on_time.value() + cycle_wait.value();
-    if !(period > 0.0) {
-        return Err(Error::new("cycle time", Reason::NotPositive));
-    }
-    let e = error::positive("energy per cycle", energy_j)?;
-    let p = error::positive("maximum power", max_power_w)?;
-    error::result("repetition rate", (1.0 / period).min(p / e))
+/// `min_period` = 0 → [`Reason::NotPositive`] on `"cycle time"`; `energy` ≤ 0 or `max_power` ≤ 0
+/// → [`Reason::NotPositive`] on `"energy per cycle"` / `"maximum power"`; a rate beyond the
+/// quantity bounds → the errors of [`Hertz::new`] on `"repetition rate"`.
+///
+/// ```
+/// use kickguard::timing::max_repetition_rate;
+/// use kickguard::{Joules, Seconds, Watts};
+/// // 60 ms cycles, 36 mJ per switch-off into a part that may take 0.5 W: the cycle limits.
+/// let f = max_repetition_rate(Seconds::new(0.06)?, Joules::new(0.036)?, Watts::new(0.5)?)?;
+/// assert!((f.value() - 1.0 / 0.072).abs() < 1e-3);
+/// # Ok::<(), kickguard::Error>(())
+/// ```
+pub fn max_repetition_rate(
+    min_period: Seconds,
+    energy: Joules,
+    max_power: Watts,
+) -> Result<Hertz, Error> {
+    let period = error::positive("cycle time", min_period.value())?;
+    let e = error::positive("energy per cycle", energy.value())?;
+    let p = error::positive("maximum power", max_power.value())?;
+    Hertz::new((1.0 / period).min(p / e)).map_err(|err| err.on("repetition rate"))
 }
 
-/// A time as a whole number of timer ticks at `tick_hz`, rounded **up** (a wait is never short),
+/// A time as a whole number of timer ticks at `tick`, rounded **up** (a wait is never short),
 /// except that a product within f32 rounding of a whole number (1.2e-7 relative, at most 0.001
 /// tick) counts as that number.
 ///
 /// Integer result for firmware that has no FPU at run time: compute once, compare counters.
 ///
 /// # Errors
-/// `tick_hz` ≤ 0 → [`Reason::NotPositive`] on `"tick rate"`; more than `u32::MAX` ticks →
-/// [`Reason::TooLarge`] on `"ticks"`.
+/// More than `u32::MAX` ticks → [`Reason::TooLarge`] on `"ticks"`.
 ///
 /// ```
-/// use kickguard::{timing::to_ticks, Seconds};
-/// assert_eq!(to_ticks(Seconds::new(16.74e-3).unwrap(), 1000.0).unwrap(), 17);
-/// assert_eq!(to_ticks(Seconds::new(0.002).unwrap(), 1000.0).unwrap(), 2);
+/// use kickguard::{timing::to_ticks, Hertz, Seconds};
+/// let khz = Hertz::new(1000.0)?;
+/// assert_eq!(to_ticks(Seconds::new(16.74e-3)?, khz)?, 17);
+/// assert_eq!(to_ticks(Seconds::new(0.002)?, khz)?, 2);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
-pub fn to_ticks(t: Seconds, tick_hz: f32) -> Result<u32, Error> {
-    let f = error::positive("tick rate", tick_hz)?;
+pub fn to_ticks(t: Seconds, tick: Hertz) -> Result<u32, Error> {
     // f64 for the product: 32-bit tick counts exceed f32's 24-bit mantissa. A product within
     // f32's own rounding (2⁻²³ relative) of a whole number is that number: 2 ms at 1 kHz is
     // 2.0000000949 ticks only because 0.002 is not exact in f32.
-    let x = t.value() as f64 * f as f64;
+    let x = t.value() as f64 * tick.value() as f64;
     let nearest = libm::round(x);
     let tol = (x * 1.2e-7).min(1e-3);
     let ticks = if (x - nearest).abs() <= tol {
@@ -145,8 +155,29 @@ pub fn to_ticks(t: Seconds, tick_hz: f32) -> Result<u32, Error> {
     } else {
         libm::ceil(x)
     };
-    if ticks > u32::MAX as f64 {
+    if !(ticks <= u32::MAX as f64) {
         return Err(Error::new("ticks", Reason::TooLarge));
     }
-    Ok(if ticks < 0.0 { 0 } else { ticks as u32 })
+    // 0 ≤ ticks ≤ u32::MAX: the cast is exact.
+    Ok(ticks as u32)
+}
+
+/// A time as whole ticks rounded **down** (for the lower edge of a window: never narrower than
+/// the model), with the same f32-rounding tolerance as [`to_ticks`].
+///
+/// # Errors
+/// As [`to_ticks`].
+pub fn to_ticks_floor(t: Seconds, tick: Hertz) -> Result<u32, Error> {
+    let x = t.value() as f64 * tick.value() as f64;
+    let nearest = libm::round(x);
+    let tol = (x * 1.2e-7).min(1e-3);
+    let ticks = if (x - nearest).abs() <= tol {
+        nearest
+    } else {
+        libm::floor(x)
+    };
+    if !(ticks <= u32::MAX as f64) {
+        return Err(Error::new("ticks", Reason::TooLarge));
+    }
+    Ok(ticks as u32)
 }

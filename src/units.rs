@@ -1,25 +1,42 @@
-//! Typed quantities: SI newtypes over `f32` with validating constructors.
+//! Typed quantities: SI newtypes over `f32` with validating constructors and checked arithmetic.
 //!
 //! Each quantity holds one `f32` in its SI base unit (volts, amperes, ohms, henries, seconds, joules,
-//! watts, farads, coulombs; kelvin for temperatures). The field is private; the only way in is a
-//! validating constructor, so every value in the crate is finite and, per type, of the allowed sign:
+//! watts, farads, coulombs, hertz; kelvin for temperatures). The field is private; the only way in
+//! is a validating constructor, so every value in the crate is finite and, per type, of the
+//! allowed sign:
 //!
 //! | type | unit | allowed values |
 //! |---|---|---|
 //! | [`Volts`], [`Amps`], [`Joules`], [`Watts`], [`Coulombs`] | V, A, J, W, C | any sign |
 //! | [`Ohms`], [`Seconds`] | Ω, s | zero or positive |
-//! | [`Henries`], [`Farads`] | H, F | strictly positive |
+//! | [`Henries`], [`Farads`], [`Hertz`] | H, F, Hz | strictly positive |
+//! | [`Duty`] | – (a fraction) | 0 … 1 |
+//! | [`PerKelvin`] (a relative temperature coefficient) | 1/K | −0.1 … 0.1 |
 //! | [`Temperature`] (a point) | K (°C accessors) | above 0 K |
 //! | [`TempDelta`] (an interval) | K | any sign |
 //!
-//! Magnitudes are limited to [`MIN_MAGNITUDE`] ≤ |x| ≤ [`MAX_MAGNITUDE`] (or exactly zero): with
-//! those bounds any product of three quantities is a finite `f32`, which is what lets the
-//! cross-unit product operators below be infallible. Quotients are methods that check their result.
+//! Magnitudes are limited to [`MIN_MAGNITUDE`] ≤ |x| ≤ [`MAX_MAGNITUDE`] (or exactly zero).
 //!
-//! Only the physically meaningful operations exist (`Ohms * Amps -> Volts`,
-//! `Volts * Amps -> Watts`, `Watts * Seconds -> Joules`, `Amps * Seconds -> Coulombs`,
-//! `Coulombs * Volts -> Joules`, `Ohms * Farads -> Seconds`). A temperature point and a
-//! temperature interval are different types, so adding two temperatures does not compile:
+//! **Arithmetic is checked.** Only the physically meaningful operations exist (`Ohms * Amps ->
+//! Volts`, `Volts * Amps -> Watts`, `Watts * Seconds -> Joules`, `Amps * Seconds -> Coulombs`,
+//! `Coulombs * Volts -> Joules`, `Ohms * Farads -> Seconds`, and `+`/`-` within one signed
+//! quantity), and each returns `Result<_, Error>`: a product of two values inside the bounds can
+//! leave them (1e12 · 1e12 = 1e24), and a chain of such products would reach ∞, so every result
+//! goes through the same validating constructor as any other value ([`Reason::TooLarge`] or
+//! [`Reason::TooSmall`] on `"product"`, `"sum"` or `"difference"`). Quotients are methods that
+//! check their result the same way.
+//!
+//! ```
+//! use kickguard::{Amps, Ohms};
+//! let v = (Ohms::new(56.0)? * Amps::new(0.5)?)?;
+//! assert_eq!(v.value(), 28.0);
+//! let huge = Ohms::new(1e12)? * Amps::new(1e12)?;
+//! assert!(huge.is_err()); // 1e24 V is outside the quantity bounds: an error, never ∞ later
+//! # Ok::<(), kickguard::Error>(())
+//! ```
+//!
+//! A temperature point and a temperature interval are different types, so adding two
+//! temperatures does not compile:
 //!
 //! ```compile_fail
 //! use kickguard::Temperature;
@@ -34,6 +51,12 @@
 //! let i = Amps::new(1.0).unwrap();
 //! let _ = v + i; // volts plus amps is meaningless
 //! ```
+//!
+//! **Formatting** (`{}`, `{:.3}`, a width) goes through [`decimal`], the crate's own integer-only
+//! float printer, not core's float formatting: writing a quantity into a fixed buffer on the
+//! target has no panic path (the link-time proof covers it).
+
+pub mod decimal;
 
 use crate::error::{self, Error, Reason};
 use core::fmt;
@@ -81,61 +104,54 @@ macro_rules! quantity {
         }
 
         impl fmt::Display for $name {
-            /// The value and its unit symbol; very small or large magnitudes in exponent form.
+            /// The value and its unit symbol; magnitudes below 1e-3 or from 1e6 up in exponent
+            /// form. Honours a precision (decimals) and a width; panic-free (see [`decimal`]).
             fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-                write_value(f, self.0)?;
-                f.write_str(concat!(" ", $unit))
+                decimal::write_quantity(f, self.0, $unit)
             }
         }
     };
 }
 
-/// Writes `x` plainly in 1e-3 ≤ |x| < 1e6 (or 0), in exponent form elsewhere, honouring the
-/// caller's precision.
-fn write_value(f: &mut fmt::Formatter<'_>, x: f32) -> fmt::Result {
-    let plain = x == 0.0 || (1e-3..1e6).contains(&x.abs());
-    match (plain, f.precision()) {
-        (true, Some(p)) => write!(f, "{x:.p$}"),
-        (true, None) => write!(f, "{x}"),
-        (false, Some(p)) => write!(f, "{x:.p$e}"),
-        (false, None) => write!(f, "{x:e}"),
-    }
-}
-
-/// Defines `A * B -> C` in both orders.
+/// Defines `A * B -> Result<C, Error>` in both orders.
 macro_rules! product {
     ($a:ident * $b:ident => $c:ident) => {
         impl Mul<$b> for $a {
-            type Output = $c;
-            fn mul(self, rhs: $b) -> $c {
-                $c(self.0 * rhs.0)
+            type Output = Result<$c, Error>;
+            fn mul(self, rhs: $b) -> Result<$c, Error> {
+                checked("product", self.0 * rhs.0).map($c)
             }
         }
         impl Mul<$a> for $b {
-            type Output = $c;
-            fn mul(self, rhs: $a) -> $c {
-                $c(self.0 * rhs.0)
+            type Output = Result<$c, Error>;
+            fn mul(self, rhs: $a) -> Result<$c, Error> {
+                checked("product", self.0 * rhs.0).map($c)
             }
         }
     };
 }
 
-/// Defines `+` and `-` within one signed quantity.
+/// Defines checked `+` and `-` within one signed quantity.
 macro_rules! additive {
     ($($t:ident),*) => {$(
         impl Add for $t {
-            type Output = $t;
-            fn add(self, rhs: $t) -> $t {
-                $t(self.0 + rhs.0)
+            type Output = Result<$t, Error>;
+            fn add(self, rhs: $t) -> Result<$t, Error> {
+                checked("sum", self.0 + rhs.0).map($t)
             }
         }
         impl Sub for $t {
-            type Output = $t;
-            fn sub(self, rhs: $t) -> $t {
-                $t(self.0 - rhs.0)
+            type Output = Result<$t, Error>;
+            fn sub(self, rhs: $t) -> Result<$t, Error> {
+                checked("difference", self.0 - rhs.0).map($t)
             }
         }
     )*};
+}
+
+/// A computed value must stay inside the quantity bounds (never ∞, never a subnormal).
+fn checked(what: &'static str, x: f32) -> Result<f32, Error> {
+    error::finite(what, x)
 }
 
 quantity!(
@@ -174,6 +190,11 @@ quantity!(
     /// Electric charge in coulombs (C). Any sign.
     Coulombs, "C", "charge (C)", finite
 );
+quantity!(
+    /// A frequency or rate in hertz (Hz): PWM frequency, switching rate, timer tick rate.
+    /// Strictly positive.
+    Hertz, "Hz", "frequency (Hz)", positive
+);
 
 product!(Ohms * Amps => Volts);
 product!(Volts * Amps => Watts);
@@ -181,7 +202,19 @@ product!(Watts * Seconds => Joules);
 product!(Amps * Seconds => Coulombs);
 product!(Coulombs * Volts => Joules);
 product!(Ohms * Farads => Seconds);
+product!(Joules * Hertz => Watts);
 additive!(Volts, Amps, Joules, Watts, Coulombs);
+
+impl Hertz {
+    /// The period 1/f, in seconds.
+    ///
+    /// # Errors
+    /// A period beyond the quantity bounds (f below 1e-12 Hz) → [`Reason::TooLarge`] on
+    /// `"period"`.
+    pub fn period(self) -> Result<Seconds, Error> {
+        Seconds::new(1.0 / self.0).map_err(|e| Error::new("period", e.reason))
+    }
+}
 
 impl Henries {
     /// Time constant τ = L / R of an R–L circuit, in seconds.
@@ -192,8 +225,9 @@ impl Henries {
     ///
     /// ```
     /// use kickguard::{Henries, Ohms};
-    /// let tau = Henries::new(0.35).unwrap().time_constant(Ohms::new(56.0).unwrap()).unwrap();
+    /// let tau = Henries::new(0.35)?.time_constant(Ohms::new(56.0)?)?;
     /// assert!((tau.value() - 0.00625).abs() < 1e-7);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn time_constant(self, r: Ohms) -> Result<Seconds, Error> {
         if r.0 > 0.0 {
@@ -205,13 +239,19 @@ impl Henries {
 
     /// Energy stored in the inductance at current `i`: E = ½·L·I², in joules.
     ///
+    /// # Errors
+    /// An energy beyond the quantity bounds → [`Reason::TooLarge`] / [`Reason::TooSmall`] on
+    /// `"stored energy"`.
+    ///
     /// ```
     /// use kickguard::{Henries, Amps};
-    /// let e = Henries::new(2.0).unwrap().stored_energy(Amps::new(3.0).unwrap());
+    /// let e = Henries::new(2.0)?.stored_energy(Amps::new(3.0)?)?;
     /// assert_eq!(e.value(), 9.0);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
-    pub fn stored_energy(self, i: Amps) -> Joules {
-        Joules(0.5 * self.0 * i.0 * i.0)
+    pub fn stored_energy(self, i: Amps) -> Result<Joules, Error> {
+        // L ≤ 1e12 and I² ≤ 1e24: the f32 product is finite; the bound check does the rest.
+        checked("stored energy", 0.5 * self.0 * i.0 * i.0).map(Joules)
     }
 }
 
@@ -230,6 +270,103 @@ impl Volts {
     }
 }
 
+/// A duty cycle or any other fraction of a whole, 0 ≤ D ≤ 1 (dimensionless).
+///
+/// ```
+/// use kickguard::Duty;
+/// assert_eq!(Duty::new(0.25)?.value(), 0.25);
+/// assert!(Duty::new(1.5).is_err());
+/// assert!(Duty::percent(40.0)?.value() - 0.4 < 1e-7);
+/// # Ok::<(), kickguard::Error>(())
+/// ```
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Duty(f32);
+
+impl Duty {
+    /// A fraction from 0 to 1.
+    ///
+    /// # Errors
+    /// Non-finite → [`Reason::NotFinite`]; outside 0…1 → [`Reason::OutsideValidatedRange`]; both
+    /// on `"duty"`.
+    pub const fn new(d: f32) -> Result<Self, Error> {
+        if !d.is_finite() {
+            Err(Error::new("duty", Reason::NotFinite))
+        } else if d >= 0.0 && d <= 1.0 {
+            Ok(Duty(d))
+        } else {
+            Err(Error::new("duty", Reason::OutsideValidatedRange))
+        }
+    }
+
+    /// A fraction from a percentage (0…100 %).
+    ///
+    /// # Errors
+    /// As [`Duty::new`].
+    pub const fn percent(p: f32) -> Result<Self, Error> {
+        Duty::new(p / 100.0)
+    }
+
+    /// The fraction (0…1).
+    pub const fn value(self) -> f32 {
+        self.0
+    }
+
+    pub(crate) const fn raw(d: f32) -> Self {
+        Duty(d)
+    }
+}
+
+impl fmt::Display for Duty {
+    /// As a percentage, for example `69.5 %`.
+    fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
+        decimal::write_quantity(f, self.0 * 100.0, "%")
+    }
+}
+
+/// A relative temperature coefficient, per kelvin: x(T) = x(T_ref)·(1 + c·(T − T_ref)). A copper
+/// winding's resistance has +0.00393 /K at 20 °C (IEC 60028); a datasheet's "+0.08 %/K" for a
+/// zener is 0.0008 /K. Limited to |c| ≤ 0.1 /K (no material used here comes near).
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct PerKelvin(f32);
+
+impl PerKelvin {
+    /// A coefficient in 1/K.
+    ///
+    /// # Errors
+    /// Non-finite → [`Reason::NotFinite`]; |c| > 0.1 /K → [`Reason::OutsideValidatedRange`]; both
+    /// on `"temperature coefficient"`.
+    pub const fn new(c: f32) -> Result<Self, Error> {
+        if !c.is_finite() {
+            Err(Error::new("temperature coefficient", Reason::NotFinite))
+        } else if c >= -0.1 && c <= 0.1 {
+            Ok(PerKelvin(c))
+        } else {
+            Err(Error::new(
+                "temperature coefficient",
+                Reason::OutsideValidatedRange,
+            ))
+        }
+    }
+
+    /// A coefficient from a datasheet's %/K (for example 0.08 for +0.08 %/K).
+    ///
+    /// # Errors
+    /// As [`PerKelvin::new`].
+    pub const fn percent_per_kelvin(p: f32) -> Result<Self, Error> {
+        PerKelvin::new(p / 100.0)
+    }
+
+    /// No temperature dependence.
+    pub const ZERO: PerKelvin = PerKelvin(0.0);
+
+    /// The coefficient in 1/K.
+    pub const fn value(self) -> f32 {
+        self.0
+    }
+}
+
 /// Offset between absolute zero and 0 °C, in kelvin (exact, by definition of the Celsius scale).
 pub const ZERO_CELSIUS_IN_KELVIN: f32 = 273.15;
 
@@ -240,11 +377,12 @@ pub const ZERO_CELSIUS_IN_KELVIN: f32 = 273.15;
 ///
 /// ```
 /// use kickguard::{Temperature, TempDelta};
-/// let t = Temperature::from_celsius(25.0).unwrap();
+/// let t = Temperature::from_celsius(25.0)?;
 /// assert!((t.kelvin() - 298.15).abs() < 1e-4);
-/// let hot = t.offset(TempDelta::from_kelvin(30.0).unwrap()).unwrap();
+/// let hot = t.offset(TempDelta::from_kelvin(30.0)?)?;
 /// assert!((hot.celsius() - 55.0).abs() < 1e-4);
 /// assert!(((hot - t).kelvin() - 30.0).abs() < 1e-4);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 #[derive(Debug, Clone, Copy, PartialEq, PartialOrd)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -289,14 +427,11 @@ impl Temperature {
     /// This temperature moved by an interval.
     ///
     /// # Errors
-    /// A result at or below 0 K → [`Reason::BelowAbsoluteZero`] on `"temperature offset"`.
+    /// A result at or below 0 K → [`Reason::BelowAbsoluteZero`], beyond 1e12 K →
+    /// [`Reason::TooLarge`], on `"temperature offset"`.
     pub fn offset(self, d: TempDelta) -> Result<Temperature, Error> {
-        let k = self.0 + d.0;
-        if k > 0.0 && k.is_finite() {
-            Ok(Temperature(k))
-        } else {
-            Err(Error::new("temperature offset", Reason::BelowAbsoluteZero))
-        }
+        Temperature::from_kelvin(self.0 + d.0)
+            .map_err(|e| Error::new("temperature offset", e.reason))
     }
 
     pub(crate) const fn raw_kelvin(k: f32) -> Self {
@@ -306,15 +441,16 @@ impl Temperature {
 
 impl Sub for Temperature {
     type Output = TempDelta;
+    /// The interval between two points (always finite: both lie in (0, 1e12] K).
     fn sub(self, rhs: Temperature) -> TempDelta {
         TempDelta(self.0 - rhs.0)
     }
 }
 
 impl fmt::Display for Temperature {
+    /// In degrees Celsius, for example `25 °C`.
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        fmt::Display::fmt(&self.celsius(), f)?;
-        f.write_str(" °C")
+        decimal::write_quantity(f, self.celsius(), "°C")
     }
 }
 
@@ -343,8 +479,7 @@ impl TempDelta {
 
 impl fmt::Display for TempDelta {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
-        fmt::Display::fmt(&self.0, f)?;
-        f.write_str(" K")
+        decimal::write_quantity(f, self.0, "K")
     }
 }
 
@@ -357,6 +492,7 @@ mod tests {
         assert_eq!(Ohms::new(-1.0).unwrap_err().reason, Reason::Negative);
         assert_eq!(Henries::new(0.0).unwrap_err().reason, Reason::NotPositive);
         assert_eq!(Seconds::new(-0.1).unwrap_err().reason, Reason::Negative);
+        assert_eq!(Hertz::new(0.0).unwrap_err().reason, Reason::NotPositive);
         assert_eq!(
             Farads::new(f32::INFINITY).unwrap_err().reason,
             Reason::NotFinite
@@ -373,6 +509,12 @@ mod tests {
             Temperature::from_kelvin(0.0).unwrap_err().reason,
             Reason::BelowAbsoluteZero
         );
+        assert_eq!(
+            Duty::new(-0.01).unwrap_err().reason,
+            Reason::OutsideValidatedRange
+        );
+        assert_eq!(Duty::new(f32::NAN).unwrap_err().reason, Reason::NotFinite);
+        assert!(PerKelvin::new(0.2).is_err());
     }
 
     #[test]
@@ -386,21 +528,25 @@ mod tests {
             format!("{}", Temperature::from_celsius(25.0).unwrap()),
             "25 °C"
         );
+        assert_eq!(format!("{}", Duty::new(0.695).unwrap()), "69.5 %");
+        assert_eq!(format!("{:>8.1}", Volts::new(-3.25).unwrap()), "  -3.2 V");
     }
 
     #[test]
     fn cross_unit_products() {
         // Ohm's law and P = V·I, E = P·t, Q = I·t (SI definitions).
-        let v = Ohms::new(56.0).unwrap() * Amps::new(0.5).unwrap();
+        let v = (Ohms::new(56.0).unwrap() * Amps::new(0.5).unwrap()).unwrap();
         assert_eq!(v.value(), 28.0);
-        let p = v * Amps::new(0.5).unwrap();
+        let p = (v * Amps::new(0.5).unwrap()).unwrap();
         assert_eq!(p.value(), 14.0);
-        let e = p * Seconds::new(2.0).unwrap();
+        let e = (p * Seconds::new(2.0).unwrap()).unwrap();
         assert_eq!(e.value(), 28.0);
-        let q = Amps::new(2.0).unwrap() * Seconds::new(3.0).unwrap();
-        assert_eq!((q * Volts::new(4.0).unwrap()).value(), 24.0);
-        let tau = Ohms::new(1e3).unwrap() * Farads::new(1e-6).unwrap();
+        let q = (Amps::new(2.0).unwrap() * Seconds::new(3.0).unwrap()).unwrap();
+        assert_eq!((q * Volts::new(4.0).unwrap()).unwrap().value(), 24.0);
+        let tau = (Ohms::new(1e3).unwrap() * Farads::new(1e-6).unwrap()).unwrap();
         assert!((tau.value() - 1e-3).abs() < 1e-9);
+        let w = (Joules::new(0.06).unwrap() * Hertz::new(0.5).unwrap()).unwrap();
+        assert!((w.value() - 0.03).abs() < 1e-9);
         assert_eq!(
             Volts::new(24.0)
                 .unwrap()
@@ -412,16 +558,30 @@ mod tests {
     }
 
     #[test]
-    fn extreme_products_stay_finite() {
+    fn extreme_products_are_errors_not_infinities() {
+        // Issue: a chain of products of valid extremes reached +∞. Every product is now checked.
         let big = Amps::new(MAX_MAGNITUDE).unwrap();
         let r = Ohms::new(MAX_MAGNITUDE).unwrap();
-        let p = (r * big) * big;
-        assert!(p.value().is_finite());
-        let l = Henries::new(MIN_MAGNITUDE).unwrap();
+        let e = (r * big).unwrap_err();
+        assert_eq!((e.input, e.reason), ("product", Reason::TooLarge));
+        let tiny = (Ohms::new(MIN_MAGNITUDE).unwrap() * Amps::new(1e-3).unwrap()).unwrap_err();
+        assert_eq!(tiny.reason, Reason::TooSmall);
+        let sum = Volts::new(MAX_MAGNITUDE).unwrap() + Volts::new(MAX_MAGNITUDE).unwrap();
+        assert_eq!(sum.unwrap_err().input, "sum");
         let slow = Henries::new(MAX_MAGNITUDE)
             .unwrap()
             .time_constant(Ohms::new(MIN_MAGNITUDE).unwrap());
         assert_eq!(slow.unwrap_err().reason, Reason::Overflow);
-        assert!(l.stored_energy(big).value().is_finite());
+        let l = Henries::new(MIN_MAGNITUDE).unwrap();
+        assert_eq!(
+            l.stored_energy(Amps::new(1e-3).unwrap())
+                .unwrap_err()
+                .reason,
+            Reason::TooSmall
+        );
+        assert!(Henries::new(MAX_MAGNITUDE)
+            .unwrap()
+            .stored_energy(big)
+            .is_err());
     }
 }

@@ -9,24 +9,49 @@
 //! - An independent numerical integration of the same circuit by a general-purpose ODE solver
 //!   from crates.io (`ode_solvers`, Dormand–Prince 5(4), f64).
 //! - The series RLC natural response (any circuits textbook): ωd = √(1/LC − (R/2L)²).
+//! - SPICE's reverse breakdown I = IBV·exp((V − BV)/(NBV·Vt)) (Nagel 1975), written in f64 here.
+//! - The empirical varistor law I = I₁·(V/V₁)^α (common practice) and, for R = 0, its decay time
+//!   L·I₁^(1/α)·I₀^(1−1/α)/(V₁·(1 − 1/α)), integrated by hand from L·di/dt = −V₁·(i/I₁)^(1/α).
+//! - The square-law MOSFET I_D = K·(V_GS − V_th)² (device-physics textbooks, e.g. Sedra & Smith,
+//!   Microelectronic Circuits) for the active clamp, and for R = 0 its decay time
+//!   2·L·K·[s₀ − c·ln(1 + s₀/c)], s₀ = √(I₀/K), c = V_Z + V_th − V_s, integrated by hand.
 
 mod common;
 
 use common::{v64, vt64};
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
+use kickguard::clamp::closed_form::single_pulse_avalanche_energy;
+use kickguard::clamp::path::END_FRACTION;
 use kickguard::clamp::snubber::{Damping, RcSnubber, SnubberSwitchOff};
-use kickguard::clamp::{Clamp, Sample, SwitchOff};
+use kickguard::clamp::{ActiveClamp, Clamp, Operating, Sample, Side, SwitchOff, SwitchedFreewheel};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
-use kickguard::{Amps, Farads, Henries, Ohms, Reason, Seconds, Temperature, Volts};
+use kickguard::diode::{Diode, DiodeParams, Ideality};
+use kickguard::varistor::Varistor;
+use kickguard::{Amps, Farads, Henries, Ohms, PerKelvin, Reason, Seconds, Temperature, Volts};
 use ode_solvers::{Dopri5, SVector, System};
 
 fn t25() -> Temperature {
     Temperature::from_celsius(25.0).unwrap()
 }
 fn coil(l: f32, r: f32) -> Coil {
-    // α = 0: the coil's resistance is exactly `r` at every temperature.
-    Coil::new(Henries::new(l).unwrap(), Ohms::new(r).unwrap(), t25(), 0.0).unwrap()
+    // No temperature coefficient: the coil's resistance is exactly `r` at every temperature.
+    Coil::fixed(Henries::new(l).unwrap(), Ohms::new(r).unwrap()).unwrap()
+}
+fn law(d: DiodeParams) -> Diode {
+    Diode::Law(d)
+}
+fn nbv(x: f32) -> Ideality {
+    Ideality::new(x).unwrap()
+}
+/// A low-side switch-off with the winding and every part at 25 °C.
+fn off_at(c: &Coil, clamp: &Clamp, vs: f32, i0: f32) -> SwitchOff {
+    SwitchOff::new(
+        c,
+        clamp,
+        Side::Low,
+        &Operating::uniform(v(vs), a(i0), t25()),
+    )
+    .unwrap()
 }
 fn a(x: f32) -> Amps {
     Amps::new(x).unwrap()
@@ -107,16 +132,26 @@ fn rel(got: f32, want: f64, scale: f64) -> f64 {
 fn diode_law_paths_match_an_independent_ode_solution() {
     // Source: `ode_solvers` Dopri5 (crates.io), f64, on L·di/dt = −g(i) with the SPICE2 diode
     // law (Nagel 1975) written independently in tests/common.
-    let si = DiodeParams::SILICON;
-    let sk = DiodeParams::SCHOTTKY;
+    let (si, sk) = (DiodeParams::SILICON, DiodeParams::SCHOTTKY);
     let z_spice = Breakdown::new(
         BreakdownLaw::Spice {
             bv: v(18.0),
             ibv: a(1e-3),
-            nbv: 2.0,
+            nbv: nbv(2.0),
             rs: Ohms::new(2.0).unwrap(),
         },
-        0.0,
+        PerKelvin::ZERO,
+        t25(),
+    )
+    .unwrap();
+    let z_floor = Breakdown::new(
+        BreakdownLaw::FlooredAtBv {
+            bv: v(18.0),
+            ibv: a(1e-3),
+            nbv: nbv(2.0),
+            rs: Ohms::new(2.0).unwrap(),
+        },
+        PerKelvin::ZERO,
         t25(),
     )
     .unwrap();
@@ -135,13 +170,15 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                 let (l64, r64, i064, i164) = (l as f64, r as f64, i0 as f64, i1 as f64);
                 let d_si = |i: f64| v64(&si, i, TK);
                 let d_sk = |i: f64| v64(&sk, i, TK);
-                // Breakdown as documented: BV + NBV·Vt·ln(1 + I/IBV) + RS·I.
-                let z = |i: f64| 18.0 + 2.0 * vt64(TK) * (i / 1e-3).ln_1p() + 2.0 * i;
+                // SPICE's exact breakdown, V = BV + NBV·Vt·ln(I/IBV) + RS·I (Nagel 1975), and
+                // the floored law BV + NBV·Vt·ln(1 + I/IBV) + RS·I.
+                let z = |i: f64| 18.0 + 2.0 * vt64(TK) * (i / 1e-3).ln() + 2.0 * i;
+                let zf = |i: f64| 18.0 + 2.0 * vt64(TK) * (i / 1e-3).ln_1p() + 2.0 * i;
                 let zero = |_: f64| 0.0;
                 let cases: Vec<Case> = vec![
                     (
                         "freewheel Si",
-                        Clamp::FreewheelDiode(si),
+                        Clamp::FreewheelDiode(law(si)),
                         Box::new(move |i| r64 * i + d_si(i)),
                         &d_si,
                         &zero,
@@ -149,7 +186,7 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                     ),
                     (
                         "freewheel Schottky",
-                        Clamp::FreewheelDiode(sk),
+                        Clamp::FreewheelDiode(law(sk)),
                         Box::new(move |i| r64 * i + d_sk(i)),
                         &d_sk,
                         &zero,
@@ -159,7 +196,7 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                         "R + D",
                         Clamp::ResistorDiode {
                             resistor: Ohms::new(r).unwrap(),
-                            diode: si,
+                            diode: law(si),
                         },
                         Box::new(move |i| 2.0 * r64 * i + d_si(i)),
                         &d_si,
@@ -167,10 +204,10 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                         1.0,
                     ),
                     (
-                        "Z + D",
+                        "Z + D (SPICE law)",
                         Clamp::ZenerDiode {
                             zener: z_spice,
-                            diode: si,
+                            diode: law(si),
                         },
                         Box::new(move |i| r64 * i + z(i) + d_si(i)),
                         &d_si,
@@ -178,8 +215,27 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                         1.0,
                     ),
                     (
+                        "Z + D (floored law)",
+                        Clamp::ZenerDiode {
+                            zener: z_floor,
+                            diode: law(si),
+                        },
+                        Box::new(move |i| r64 * i + zf(i) + d_si(i)),
+                        &d_si,
+                        &zf,
+                        1.0,
+                    ),
+                    (
+                        "TVS across the coil (SPICE law)",
+                        Clamp::TvsAcrossCoil(z_spice),
+                        Box::new(move |i| r64 * i + z(i)),
+                        &zero,
+                        &z,
+                        0.0,
+                    ),
+                    (
                         "H-bridge",
-                        Clamp::HBridgeFastDecay(si),
+                        Clamp::HBridgeFastDecay(law(si)),
                         Box::new(move |i| r64 * i + 2.0 * d_si(i) + VS as f64),
                         &d_si,
                         &zero,
@@ -187,7 +243,7 @@ fn diode_law_paths_match_an_independent_ode_solution() {
                     ),
                 ];
                 for (name, clamp, g, vd, vz, nd) in cases {
-                    let off = SwitchOff::new(&c, &clamp, v(VS), a(i0), t25(), t25()).unwrap();
+                    let off = off_at(&c, &clamp, VS, i0);
                     let got = off.decay_to(a(i1)).unwrap();
                     let y = ode_decay(l64, i064, i164, &*g, vd, vz);
                     let released = 0.5 * l64 * (i064 * i064 - i164 * i164);
@@ -216,8 +272,9 @@ fn diode_law_paths_match_an_independent_ode_solution() {
             }
         }
     }
-    // The issue asks for 0.5 %; the method gives far better. Guard the headroom too.
+    // The issue asks for 0.05 %; the method gives far better. Guard the headroom too.
     assert!(worst < 2e-4, "worst relative error {worst:e}");
+    println!("diode-law paths against Dormand–Prince: worst relative error {worst:e}");
 }
 
 #[test]
@@ -229,16 +286,14 @@ fn constant_clamp_matches_the_textbook_rl_decay() {
         (1e-4, 0.1, 20.0, 60.0),
         (2.0, 1000.0, 0.01, 25.0),
     ] {
-        let off = SwitchOff::new(
+        let off = off_at(
             &coil(l, r),
             &Clamp::Avalanche(Breakdown::ideal(v(vbr)).unwrap()),
-            v(VS),
-            a(i0),
-            t25(),
-            t25(),
-        )
-        .unwrap();
+            VS,
+            i0,
+        );
         let d = off.decay_to(a(0.0)).unwrap();
+        assert_eq!(off.decay_to_end().unwrap(), d);
         let (l, r, i0, vbr, vs) = (l as f64, r as f64, i0 as f64, vbr as f64, VS as f64);
         let tau = l / r;
         let vc = vbr - vs;
@@ -277,15 +332,12 @@ fn r_to_zero_gives_the_linear_ramp_and_the_avalanche_energy_formula() {
     // Source: R → 0 limit, time L·I₀/Vc (Horowitz & Hill, AoE 3rd ed.), and the UIS single-pulse
     // avalanche energy ½·L·I²·V_BR/(V_BR − V_DD) (power-MOSFET application notes; from memory).
     let (l, i0, vbr) = (0.35f64, 2.0f64, 60.0f64);
-    let off = SwitchOff::new(
+    let off = off_at(
         &coil(l as f32, 1e-6),
         &Clamp::Avalanche(Breakdown::ideal(v(vbr as f32)).unwrap()),
-        v(VS),
-        a(i0 as f32),
-        t25(),
-        t25(),
-    )
-    .unwrap();
+        VS,
+        i0 as f32,
+    );
     let d = off.decay_to(a(0.0)).unwrap();
     let vc = vbr - VS as f64;
     assert!(
@@ -299,20 +351,26 @@ fn r_to_zero_gives_the_linear_ramp_and_the_avalanche_energy_formula() {
         "E_AS {} vs {e_as}",
         d.energy.switch.value()
     );
+    // The closed-form helper gives the same figure.
+    let helper = single_pulse_avalanche_energy(
+        Henries::new(l as f32).unwrap(),
+        a(i0 as f32),
+        v(vbr as f32),
+        v(VS),
+    )
+    .unwrap();
+    assert!(rel(helper.value(), e_as, 0.0) < 1e-6, "helper {helper}");
 }
 
 #[test]
 fn small_clamp_voltage_gives_the_plain_exponential() {
     // Source: RL natural response i = I₀·e^(−t/τ) (Horowitz & Hill, AoE 3rd ed.), the Vc → 0 limit.
-    let off = SwitchOff::new(
+    let off = off_at(
         &coil(0.9, 160.0),
-        &Clamp::SwitchZener(Breakdown::ideal(v(VS * (1.0 + 1e-6))).unwrap()),
-        v(VS),
-        a(0.075),
-        t25(),
-        t25(),
-    )
-    .unwrap();
+        &Clamp::AcrossSwitch(Breakdown::ideal(v(VS * (1.0 + 1e-6))).unwrap()),
+        VS,
+        0.075,
+    );
     let t = off.time_to(a(0.0075)).unwrap().value() as f64;
     let want = 0.9 / 160.0 * 10f64.ln();
     assert!(rel(t as f32, want, 0.0) < 1e-4, "{t} vs {want}");
@@ -321,14 +379,14 @@ fn small_clamp_voltage_gives_the_plain_exponential() {
 #[test]
 fn energy_balance_closes_for_every_topology() {
     // Source: conservation of energy, ½·L·(I₀² − I₁²) + E_supply = Σ dissipated.
-    let si = DiodeParams::SILICON;
+    let si = law(DiodeParams::SILICON);
     let z = Breakdown::new(
         BreakdownLaw::Datasheet {
             vz: v(18.0),
             izt: a(5e-3),
             rz: Ohms::new(15.0).unwrap(),
         },
-        9e-4,
+        PerKelvin::new(9e-4).unwrap(),
         t25(),
     )
     .unwrap();
@@ -336,15 +394,23 @@ fn energy_balance_closes_for_every_topology() {
         BreakdownLaw::Spice {
             bv: v(36.0),
             ibv: a(1e-3),
-            nbv: 3.0,
+            nbv: nbv(3.0),
             rs: Ohms::new(0.5).unwrap(),
         },
-        1e-3,
+        PerKelvin::new(1e-3).unwrap(),
         t25(),
     )
     .unwrap();
+    let mov = Varistor::new(v(39.0), a(1e-3), 30.0, PerKelvin::ZERO, t25()).unwrap();
+    let active = ActiveClamp {
+        zener: Breakdown::ideal(v(40.0)).unwrap(),
+        zener_current: a(1e-3),
+        gate_threshold: v(3.0),
+        transconductance_a_per_v2: Some(5.0),
+    };
     let clamps = [
         Clamp::FreewheelDiode(si),
+        Clamp::FreewheelDiode(Diode::FixedDrop(v(0.8))),
         Clamp::ResistorDiode {
             resistor: Ohms::new(100.0).unwrap(),
             diode: si,
@@ -353,9 +419,17 @@ fn energy_balance_closes_for_every_topology() {
             zener: z,
             diode: si,
         },
-        Clamp::SwitchZener(tvs),
+        Clamp::TvsAcrossCoil(tvs),
+        Clamp::Varistor(mov),
+        Clamp::AcrossSwitch(tvs),
         Clamp::Avalanche(Breakdown::ideal(v(65.0)).unwrap()),
+        Clamp::ActiveClamp(active),
         Clamp::HBridgeFastDecay(si),
+        Clamp::SwitchedFreewheel(SwitchedFreewheel {
+            diode: si,
+            zener: z,
+            bypass: Ohms::new(0.5).unwrap(),
+        }),
     ];
     for clamp in clamps {
         for &(l, r, i0) in &[
@@ -363,22 +437,30 @@ fn energy_balance_closes_for_every_topology() {
             (1e-3, 0.5, 10.0),
             (5.0, 2000.0, 0.005),
         ] {
-            let off = SwitchOff::new(
-                &coil(l, r),
-                &clamp,
-                v(VS),
-                a(i0),
-                t25(),
-                Temperature::from_celsius(85.0).unwrap(),
-            )
-            .unwrap();
+            let hot = Temperature::from_celsius(85.0).unwrap();
+            let op = Operating {
+                supply: v(VS),
+                start_current: a(i0),
+                winding: t25(),
+                diodes: hot,
+                breakdown: hot,
+            };
+            let off = SwitchOff::new(&coil(l, r), &clamp, Side::Low, &op).unwrap();
             let d = off.decay_to(a(i0 * 0.01)).unwrap();
             let e = d.energy;
             let lhs = e.released_by_coil.value() as f64 + e.from_supply.value() as f64;
-            let rhs = [e.coil_resistance, e.resistor, e.diodes, e.zener, e.switch]
+            let parts = [e.resistor, e.diodes, e.zener, e.varistor];
+            let rhs = [e.coil_resistance, e.switch]
                 .iter()
+                .chain(parts.iter())
                 .map(|x| x.value() as f64)
                 .sum::<f64>();
+            let total: f64 = parts.iter().map(|x| x.value() as f64).sum();
+            assert!(
+                rel(e.clamp_total.value(), total, 1e-9) < 1e-6,
+                "{clamp:?}: clamp total {} vs {total}",
+                e.clamp_total
+            );
             let err = (lhs - rhs).abs() / lhs.abs();
             assert!(err < 1e-3, "{clamp:?} L={l}: {lhs} vs {rhs} ({err:e})");
             assert!(
@@ -394,29 +476,18 @@ fn plain_diode_is_several_times_slower_than_a_zener_clamp() {
     // Common practice: a plain freewheeling diode makes a relay release several times slower
     // than a diode + zener clamp of a few times the supply voltage.
     let c = coil(0.9, 160.0);
-    let si = DiodeParams::SILICON;
-    let plain = SwitchOff::new(
-        &c,
-        &Clamp::FreewheelDiode(si),
-        v(12.0),
-        a(0.075),
-        t25(),
-        t25(),
-    )
-    .unwrap();
+    let si = law(DiodeParams::SILICON);
+    let plain = off_at(&c, &Clamp::FreewheelDiode(si), 12.0, 0.075);
     let z = Breakdown::ideal(v(36.0)).unwrap();
-    let zener = SwitchOff::new(
+    let zener = off_at(
         &c,
         &Clamp::ZenerDiode {
             zener: z,
             diode: si,
         },
-        v(12.0),
-        a(0.075),
-        t25(),
-        t25(),
-    )
-    .unwrap();
+        12.0,
+        0.075,
+    );
     let release = a(0.0075);
     let ratio = plain.time_to(release).unwrap().value() / zener.time_to(release).unwrap().value();
     assert!(ratio > 3.0, "plain/zener release time ratio {ratio}");
@@ -427,15 +498,7 @@ fn sampled_decay_agrees_with_time_to() {
     // Consistency of the sampler with the quadrature (both from the model; the quadrature is
     // checked against the ODE solver above).
     let si = DiodeParams::SILICON;
-    let off = SwitchOff::new(
-        &coil(0.35, 56.0),
-        &Clamp::FreewheelDiode(si),
-        v(VS),
-        a(0.43),
-        t25(),
-        t25(),
-    )
-    .unwrap();
+    let off = off_at(&coil(0.35, 56.0), &Clamp::FreewheelDiode(law(si)), VS, 0.43);
     let mut buf = [Sample::default(); 256];
     let dt = 1e-4f32;
     let n = off
@@ -455,9 +518,11 @@ fn sampled_decay_agrees_with_time_to() {
             "sample {s:?} vs time_to {t}"
         );
     }
-    // Switch voltage: supply plus the diode's drop at that current.
+    // Switch voltage: supply plus the diode's drop at that current; a low-side output is the
+    // switch voltage itself.
     let vd = si.forward_drop(buf[3].current, t25()).unwrap().value();
     assert!((buf[3].switch_voltage.value() - (VS + vd)).abs() < 1e-4);
+    assert_eq!(buf[3].output_voltage, buf[3].switch_voltage);
     // A small buffer is filled and no more.
     let mut small = [Sample::default(); 3];
     assert_eq!(
@@ -548,11 +613,7 @@ fn rc_snubber_matches_ode_and_textbook_rlc() {
         let mut buf = [Sample::default(); 5];
         let step = t_end / 40.0;
         let n = s
-            .sample(
-                Seconds::new(step as f32).unwrap(),
-                Seconds::new(t_end as f32).unwrap(),
-                &mut buf,
-            )
+            .sample(Seconds::new(step as f32).unwrap(), &mut buf)
             .unwrap();
         assert_eq!(n, 5);
         for smp in &buf[..n] {
@@ -603,19 +664,31 @@ fn rc_snubber_matches_ode_and_textbook_rlc() {
 #[test]
 fn bad_inputs_are_named() {
     let c = coil(0.35, 56.0);
-    let si = Clamp::FreewheelDiode(DiodeParams::SILICON);
-    let e = SwitchOff::new(&c, &si, v(VS), a(0.0), t25(), t25()).unwrap_err();
+    let si = Clamp::FreewheelDiode(law(DiodeParams::SILICON));
+    let op = |vs: f32, i0: f32| Operating::uniform(v(vs), a(i0), t25());
+    let e = SwitchOff::new(&c, &si, Side::Low, &op(VS, 0.0)).unwrap_err();
     assert_eq!((e.input, e.reason), ("start current", Reason::NotPositive));
-    let e = SwitchOff::new(&c, &si, v(0.0), a(0.4), t25(), t25()).unwrap_err();
+    let e = SwitchOff::new(&c, &si, Side::Low, &op(0.0, 0.4)).unwrap_err();
     assert_eq!((e.input, e.reason), ("supply voltage", Reason::NotPositive));
-    // A switch-side clamp at or below the supply can never stop the current.
-    let low = Clamp::SwitchZener(Breakdown::ideal(v(20.0)).unwrap());
-    let e = SwitchOff::new(&c, &low, v(VS), a(0.4), t25(), t25()).unwrap_err();
+    // A clamp across the switch at or below the supply can never stop the current.
+    let low = Clamp::AcrossSwitch(Breakdown::ideal(v(20.0)).unwrap());
+    let e = SwitchOff::new(&c, &low, Side::Low, &op(VS, 0.4)).unwrap_err();
     assert_eq!(
         (e.input, e.reason),
         ("breakdown voltage", Reason::CannotClamp)
     );
-    let off = SwitchOff::new(&c, &si, v(VS), a(0.4), t25(), t25()).unwrap();
+    // The two temperatures are named fields: a clamp part outside its range names itself.
+    let mut cold = op(VS, 0.4);
+    cold.diodes = Temperature::from_celsius(-150.0).unwrap();
+    let e = SwitchOff::new(&c, &si, Side::Low, &cold).unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("diode temperature", Reason::OutsideValidatedRange)
+    );
+    let bad_drop = Clamp::FreewheelDiode(Diode::FixedDrop(v(-1.0)));
+    let e = SwitchOff::new(&c, &bad_drop, Side::Low, &op(VS, 0.4)).unwrap_err();
+    assert_eq!((e.input, e.reason), ("diode drop", Reason::NotPositive));
+    let off = off_at(&c, &si, VS, 0.4);
     assert_eq!(off.time_to(a(0.4)).unwrap_err().reason, Reason::Unreachable);
     assert_eq!(off.time_to(a(0.0)).unwrap_err().reason, Reason::Unreachable);
     assert_eq!(off.time_to(a(-0.1)).unwrap_err().reason, Reason::Negative);
@@ -630,15 +703,16 @@ fn bad_inputs_are_named() {
             .input,
         "sample interval"
     );
+    let e = off.profile(&[a(0.01), a(0.1)]).unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("profile currents", Reason::NotDecreasing)
+    );
+    let e = off.profile::<0>(&[]).unwrap_err();
+    assert_eq!((e.input, e.reason), ("profile currents", Reason::TooFew));
     assert_eq!(Henries::new(0.0).unwrap_err().reason, Reason::NotPositive);
     assert_eq!(Ohms::new(-1.0).unwrap_err().reason, Reason::Negative);
-    let e = Coil::new(
-        Henries::new(1.0).unwrap(),
-        Ohms::new(0.0).unwrap(),
-        t25(),
-        0.0,
-    )
-    .unwrap_err();
+    let e = Coil::fixed(Henries::new(1.0).unwrap(), Ohms::new(0.0).unwrap()).unwrap_err();
     assert_eq!(e.input, "coil resistance");
     let e = Breakdown::new(
         BreakdownLaw::Datasheet {
@@ -646,9 +720,362 @@ fn bad_inputs_are_named() {
             izt: a(0.1),
             rz: Ohms::new(60.0).unwrap(),
         },
-        0.0,
+        PerKelvin::ZERO,
         t25(),
     )
     .unwrap_err();
     assert_eq!((e.input, e.reason), ("rz", Reason::Inconsistent));
+}
+
+/// f64 root of an increasing function by bisection on [lo, hi] (a textbook method, written
+/// here independently of the crate's Illinois solver).
+fn bisect(f: impl Fn(f64) -> f64, mut lo: f64, mut hi: f64) -> f64 {
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if f(mid) > 0.0 {
+            hi = mid;
+        } else {
+            lo = mid;
+        }
+    }
+    0.5 * (lo + hi)
+}
+
+#[test]
+fn varistor_decay_matches_the_hand_integrated_power_law() {
+    // Source: varistor law I = I₁·(V/V₁)^α (common practice). With R = 0,
+    // L·di/dt = −V₁·(i/I₁)^(1/α) integrates by hand to t = L·I₁^β·I₀^(1−β)/(V₁·(1 − β)),
+    // β = 1/α, and all of ½·L·I₀² goes into the varistor; with R > 0, the Dopri5 reference.
+    for &alpha in &[5.0f32, 30.0, 80.0] {
+        let mov = Varistor::new(v(39.0), a(1e-3), alpha, PerKelvin::ZERO, t25()).unwrap();
+        let (l, i0) = (0.35f64, 0.43f64);
+        let off = off_at(&coil(l as f32, 1e-9), &Clamp::Varistor(mov), VS, i0 as f32);
+        assert!(off.reaches_zero(), "a varistor clamp reaches zero current");
+        let d = off.decay_to_end().unwrap();
+        let beta = 1.0 / alpha as f64;
+        let want = l * 1e-3f64.powf(beta) * i0.powf(1.0 - beta) / (39.0 * (1.0 - beta));
+        assert!(
+            rel(d.time.value(), want, 0.0) < 2e-5,
+            "α={alpha}: {} vs {want}",
+            d.time
+        );
+        let e = d.energy.varistor.value();
+        assert!(
+            rel(e, 0.5 * l * i0 * i0, 0.0) < 1e-5,
+            "α={alpha}: {e} vs {}",
+            0.5 * l * i0 * i0
+        );
+        assert_eq!(d.energy.varistor, d.energy.clamp_total);
+        // Switch voltage: supply plus the varistor's voltage at the start current.
+        let vv = 39.0 * (i0 / 1e-3).powf(beta);
+        assert!(rel(off.peak_switch_voltage().value(), VS as f64 + vv, 0.0) < 1e-5);
+        // With a winding resistance: against the ODE.
+        let r = 56.0;
+        let off = off_at(
+            &coil(l as f32, r as f32),
+            &Clamp::Varistor(mov),
+            VS,
+            i0 as f32,
+        );
+        let g = move |i: f64| r * i + 39.0 * (i / 1e-3).powf(beta);
+        let zero = |_: f64| 0.0;
+        let i1 = 1e-4 * i0;
+        let y = ode_decay(l, i0, i1, &g, &zero, &zero);
+        let got = off.decay_to(a(i1 as f32)).unwrap();
+        assert!(
+            rel(got.time.value(), y[0], 0.0) < 1e-5,
+            "α={alpha}: {} vs {}",
+            got.time,
+            y[0]
+        );
+        assert!(rel(got.charge.value(), y[1], 0.0) < 1e-5);
+    }
+}
+
+#[test]
+fn active_clamp_follows_the_uis_formula_and_the_square_law() {
+    // Sources: the UIS energy ½·L·I²·V_cl/(V_cl − V_s) with V_cl = V_Z + V_th (power-MOSFET
+    // practice, from memory) for a clamp without overdrive; with the square-law overdrive
+    // √(i/K) (Sedra & Smith) and R = 0, t = 2·L·K·[s₀ − c·ln(1 + s₀/c)], integrated by hand.
+    let (l, i0, vz, vth) = (0.015f64, 1.5f64, 40.0f32, 3.0f32);
+    let zener = Breakdown::ideal(v(vz)).unwrap();
+    let plain = ActiveClamp {
+        zener,
+        zener_current: a(1e-3),
+        gate_threshold: v(vth),
+        transconductance_a_per_v2: None,
+    };
+    let c = coil(l as f32, 1e-9);
+    let off = off_at(&c, &Clamp::ActiveClamp(plain), 12.0, i0 as f32);
+    let d = off.decay_to_end().unwrap();
+    let vcl = (vz + vth) as f64;
+    let e_uis = 0.5 * l * i0 * i0 * vcl / (vcl - 12.0);
+    assert!(
+        rel(d.energy.switch.value(), e_uis, 0.0) < 1e-4,
+        "{} vs {e_uis}",
+        d.energy.switch
+    );
+    assert_eq!(d.energy.clamp_total.value(), 0.0, "the switch takes it all");
+    assert!(rel(off.peak_switch_voltage().value(), vcl, 0.0) < 1e-6);
+    let k = 2.0f64;
+    let sq = ActiveClamp {
+        transconductance_a_per_v2: Some(k as f32),
+        ..plain
+    };
+    let off = off_at(&c, &Clamp::ActiveClamp(sq), 12.0, i0 as f32);
+    let d = off.decay_to_end().unwrap();
+    let (s0, cc) = ((i0 / k).sqrt(), vcl - 12.0);
+    let want = 2.0 * l * k * (s0 - cc * (1.0 + s0 / cc).ln());
+    assert!(
+        rel(d.time.value(), want, 0.0) < 1e-5,
+        "{} vs {want}",
+        d.time
+    );
+    // Peak: V_Z + V_th + √(I₀/K).
+    assert!(rel(off.peak_switch_voltage().value(), vcl + s0, 0.0) < 1e-6);
+    // A clamp voltage below the supply cannot switch the coil off.
+    let weak = ActiveClamp {
+        zener: Breakdown::ideal(v(6.0)).unwrap(),
+        ..plain
+    };
+    let e = SwitchOff::new(
+        &c,
+        &Clamp::ActiveClamp(weak),
+        Side::Low,
+        &Operating::uniform(v(12.0), a(1.0), t25()),
+    )
+    .unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("active clamp voltage", Reason::CannotClamp)
+    );
+}
+
+#[test]
+fn high_side_output_swings_below_ground() {
+    // Sources: circuit analysis by hand. A high-side switch's output sits at V_s − V_switch
+    // at switch-off: a freewheel diode to ground holds it at −V_D(I₀); an internal 45 V clamp
+    // on a 12 V supply takes it to −33 V, and the switch absorbs the UIS energy
+    // ½·L·I²·45/(45 − 12) (power-MOSFET practice, from memory) in the R → 0 limit.
+    let si = DiodeParams::SILICON;
+    let (l, i0) = (0.015f32, 1.5f32);
+    let op = Operating::uniform(v(12.0), a(i0), t25());
+    let c = coil(l, 8.0);
+    let fw = SwitchOff::new(&c, &Clamp::FreewheelDiode(law(si)), Side::High, &op).unwrap();
+    let vd = v64(&si, i0 as f64, TK);
+    assert!(rel(fw.peak_output_voltage().value(), -vd, 0.0) < 1e-5);
+    assert!(rel(fw.peak_switch_voltage().value(), 12.0 + vd, 0.0) < 1e-5);
+    // The loop is the same on either side: the same decay.
+    let low = SwitchOff::new(&c, &Clamp::FreewheelDiode(law(si)), Side::Low, &op).unwrap();
+    assert_eq!(fw.time_to(a(0.01)).unwrap(), low.time_to(a(0.01)).unwrap());
+    let clamp45 = Clamp::Avalanche(Breakdown::ideal(v(45.0)).unwrap());
+    let hs = SwitchOff::new(&coil(l, 1e-9), &clamp45, Side::High, &op).unwrap();
+    assert_eq!(hs.peak_output_voltage().value(), -33.0);
+    assert_eq!(hs.peak_switch_voltage().value(), 45.0);
+    let e = hs.decay_to_end().unwrap().energy.switch.value() as f64;
+    let want = 0.5 * l as f64 * (i0 * i0) as f64 * 45.0 / 33.0;
+    assert!(rel(e as f32, want, 0.0) < 1e-4, "{e} vs {want}");
+    let mut buf = [Sample::default(); 8];
+    let n = hs
+        .sample(Seconds::new(1e-4).unwrap(), a(0.0), &mut buf)
+        .unwrap();
+    assert!(buf[..n].iter().all(|s| s.output_voltage.value() <= 0.0));
+}
+
+#[test]
+fn switched_freewheel_is_zener_plus_diode_at_turn_off_and_a_diode_while_holding() {
+    // Source: circuit analysis by hand: with the bypass open the path is zener + diode; with it
+    // closed, the diode's drop plus R_on·I (the diode law of Nagel 1975, in f64).
+    let si = DiodeParams::SILICON;
+    let z = Breakdown::ideal(v(18.0)).unwrap();
+    let sw = SwitchedFreewheel {
+        diode: law(si),
+        zener: z,
+        bypass: Ohms::new(0.5).unwrap(),
+    };
+    let c = coil(0.35, 56.0);
+    let a1 = off_at(&c, &Clamp::SwitchedFreewheel(sw), VS, 0.43);
+    let a2 = off_at(&c, &sw.final_turn_off(), VS, 0.43);
+    assert_eq!(a1.decay_to_end().unwrap(), a2.decay_to_end().unwrap());
+    let fw = sw.hold_freewheel(a(0.15), t25()).unwrap();
+    let want = v64(&si, 0.15, TK) + 0.5 * 0.15;
+    assert!(rel(fw.diode_drop().value(), want, 0.0) < 1e-5);
+    assert_eq!(fw.zener().value(), 0.0);
+}
+
+#[test]
+fn fixed_drop_diode_is_the_textbook_constant_clamp() {
+    // Source: RL decay into a constant clamp V_F (Horowitz & Hill, AoE 3rd ed.): time to zero
+    // τ·ln(1 + I₀R/V_F); a fixed drop reaches zero, the full law only tends to it.
+    let c = coil(0.9, 160.0);
+    let fixed = off_at(
+        &c,
+        &Clamp::FreewheelDiode(Diode::FixedDrop(v(0.7))),
+        12.0,
+        0.075,
+    );
+    assert!(fixed.is_closed_form() && fixed.reaches_zero());
+    let d = fixed.decay_to_end().unwrap();
+    let want = 0.9 / 160.0 * (1.0f64 + 0.075 * 160.0 / 0.7).ln();
+    assert!(rel(d.time.value(), want, 0.0) < 2e-5);
+    assert!(rel(d.energy.diodes.value(), 0.7 * d.charge.value() as f64, 0.0) < 1e-5);
+    let full = off_at(
+        &c,
+        &Clamp::FreewheelDiode(law(DiodeParams::SILICON)),
+        12.0,
+        0.075,
+    );
+    assert!(!full.reaches_zero());
+    assert_eq!(
+        full.end_current().unwrap().value(),
+        0.075 * END_FRACTION,
+        "a diode-law decay ends at the stated fraction of its start current"
+    );
+}
+
+#[test]
+fn one_pass_profile_equals_separate_integrations() {
+    // Consistency of one pass with separate calls (each checked against the ODE above): the
+    // same times and, to the last current, the same energies.
+    let si = law(DiodeParams::SILICON);
+    let z = Breakdown::new(
+        BreakdownLaw::Spice {
+            bv: v(18.0),
+            ibv: a(1e-3),
+            nbv: nbv(2.0),
+            rs: Ohms::new(2.0).unwrap(),
+        },
+        PerKelvin::ZERO,
+        t25(),
+    )
+    .unwrap();
+    for clamp in [
+        Clamp::FreewheelDiode(si),
+        Clamp::ZenerDiode {
+            zener: z,
+            diode: si,
+        },
+        Clamp::Avalanche(Breakdown::ideal(v(66.0)).unwrap()),
+    ] {
+        let off = off_at(&coil(0.35, 56.0), &clamp, VS, 0.43);
+        let cur = [a(0.215), a(0.043), a(0.0043)];
+        let p = off.profile(&cur).unwrap();
+        for (k, c) in cur.iter().enumerate() {
+            let t = off.time_to(*c).unwrap().value();
+            assert!(
+                rel(p.times[k].value(), t as f64, 0.0) < 2e-6,
+                "{clamp:?} {k}"
+            );
+        }
+        let d = off.decay_to(cur[2]).unwrap();
+        for (x, y) in [
+            (p.decay.charge.value(), d.charge.value()),
+            (p.decay.energy.diodes.value(), d.energy.diodes.value()),
+            (p.decay.energy.zener.value(), d.energy.zener.value()),
+            (p.decay.energy.switch.value(), d.energy.switch.value()),
+        ] {
+            assert!(rel(x, y as f64, 1e-12) < 2e-6, "{clamp:?}: {x} vs {y}");
+        }
+        assert_eq!(p.peak_switch_voltage, off.peak_switch_voltage());
+    }
+}
+
+/// Decay integrals towards a steady current i_f, over s = ln(i − i_f), normalised to λ ∈ [0, 1]:
+/// [t, ∫V_Z·i dt], each d/dλ = (s₀ − s₁)·L·(i − i_f)/g(i)·[1, V_Z·i]. Near i_f this variable
+/// keeps the integrand smooth (g vanishes linearly there), where one uniform in current does not.
+struct FloorOde<'a> {
+    l: f64,
+    f: f64,
+    s0: f64,
+    s1: f64,
+    g: &'a dyn Fn(f64) -> f64,
+    vz: &'a dyn Fn(f64) -> f64,
+}
+
+impl System<f64, SVector<f64, 2>> for FloorOde<'_> {
+    fn system(&self, lam: f64, _y: &SVector<f64, 2>, dy: &mut SVector<f64, 2>) {
+        let e = (self.s0 + lam * (self.s1 - self.s0)).exp();
+        let i = self.f + e;
+        let k = (self.s0 - self.s1) * self.l * e / (self.g)(i);
+        dy[0] = k;
+        dy[1] = k * (self.vz)(i) * i;
+    }
+}
+
+fn floor_decay(
+    l: f64,
+    f: f64,
+    i0: f64,
+    i1: f64,
+    g: &dyn Fn(f64) -> f64,
+    vz: &dyn Fn(f64) -> f64,
+) -> SVector<f64, 2> {
+    let sys = FloorOde {
+        l,
+        f,
+        s0: (i0 - f).ln(),
+        s1: (i1 - f).ln(),
+        g,
+        vz,
+    };
+    let mut solver = Dopri5::new(sys, 0.0, 1.0, 1e-4, SVector::zeros(), 1e-11, 1e-30);
+    solver.integrate().expect("reference ODE integration");
+    *solver.y_out().last().unwrap()
+}
+
+#[test]
+fn spice_clamp_near_the_supply_settles_at_its_steady_current() {
+    // Source: SPICE's reverse breakdown I = IBV·exp((V − BV)/(NBV·Vt)) (Nagel 1975): across the
+    // switch, the loop R·i + BV + NBV·Vt·ln(i/IBV) + RS·i − V_s = 0 has a root i_f > 0, found here
+    // by f64 bisection; times to currents above it against the Dopri5 reference.
+    let (bv, ibv, n, rs) = (24.2f32, 1e-3f32, 2.0f32, 0.5f32);
+    let tvs = Breakdown::new(
+        BreakdownLaw::Spice {
+            bv: v(bv),
+            ibv: a(ibv),
+            nbv: nbv(n),
+            rs: Ohms::new(rs).unwrap(),
+        },
+        PerKelvin::ZERO,
+        t25(),
+    )
+    .unwrap();
+    let (l, r, i0) = (0.35f64, 56.0f64, 0.43f64);
+    let off = off_at(
+        &coil(l as f32, r as f32),
+        &Clamp::AcrossSwitch(tvs),
+        VS,
+        i0 as f32,
+    );
+    let a_z = n as f64 * vt64(TK);
+    let g = move |i: f64| (r + rs as f64) * i + bv as f64 + a_z * (i / ibv as f64).ln() - VS as f64;
+    let i_f = bisect(g, 1e-30, i0);
+    assert!(i_f > 1e-6, "the reference root {i_f:e}");
+    let got = off.steady_current().value() as f64;
+    println!(
+        "steady current {got:e} vs {i_f:e}: rel {:e}",
+        rel(got as f32, i_f, 0.0)
+    );
+    assert!(
+        rel(got as f32, i_f, 0.0) < 1e-4,
+        "steady current {got:e} vs {i_f:e}"
+    );
+    assert!(!off.reaches_zero());
+    assert_eq!(off.time_to(a(0.0)).unwrap_err().reason, Reason::Unreachable);
+    assert_eq!(
+        off.time_to(a((0.5 * i_f) as f32)).unwrap_err().reason,
+        Reason::Unreachable
+    );
+    let vz = move |i: f64| bv as f64 + a_z * (i / ibv as f64).ln() + rs as f64 * i;
+    for &i1 in &[0.1 * i0, 2.0 * i_f, 1.05 * i_f] {
+        let y = floor_decay(l, i_f, i0, i1, &g, &vz);
+        let d = off.decay_to(a(i1 as f32)).unwrap();
+        assert!(
+            rel(d.time.value(), y[0], 0.0) < 5e-5,
+            "to {i1:e}: {} vs {}",
+            d.time,
+            y[0]
+        );
+        assert!(rel(d.energy.zener.value(), y[1], 0.0) < 5e-5);
+    }
 }

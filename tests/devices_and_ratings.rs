@@ -12,11 +12,14 @@ mod common;
 use common::{v64, vt64};
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
 use kickguard::clamp::sizing::ZenerSizing;
-use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
-use kickguard::rating::{average_power, single_pulse, ThermalPath};
-use kickguard::{Amps, Henries, Joules, Ohms, Reason, Seconds, Temperature, Volts, Watts};
+use kickguard::diode::{Diode, DiodeParams, Ideality};
+use kickguard::rating::{average_power, single_pulse, PulseRating, ThermalPath};
+use kickguard::timing::max_repetition_rate;
+use kickguard::{
+    Amps, Duty, Henries, Hertz, Joules, Ohms, PerKelvin, Reason, Seconds, Temperature, Volts, Watts,
+};
 
 fn tc(c: f32) -> Temperature {
     Temperature::from_celsius(c).unwrap()
@@ -31,7 +34,7 @@ fn copper_coefficient_follows_iec_60028() {
         tc(20.0),
     )
     .unwrap();
-    assert!((c.alpha_per_k() - 0.00393).abs() < 1e-7);
+    assert!((c.alpha().value() - 0.00393).abs() < 1e-7);
     let r = c.resistance(tc(70.0)).unwrap().value();
     assert!((r - 100.0 * (1.0 + 0.00393 * 50.0)).abs() < 1e-3, "{r}");
     // Referred to 25 °C: 1/(1/0.00393 + 5) = 0.003855 /K (IEC 60028 relation; from memory).
@@ -42,9 +45,9 @@ fn copper_coefficient_follows_iec_60028() {
     )
     .unwrap();
     assert!(
-        (c25.alpha_per_k() - 0.003855).abs() < 2e-6,
-        "{}",
-        c25.alpha_per_k()
+        (c25.alpha().value() - 0.003855).abs() < 2e-6,
+        "{:?}",
+        c25.alpha()
     );
     // Both descriptions of the same winding agree at any temperature (the linear law is exact
     // under re-referencing).
@@ -65,21 +68,25 @@ fn copper_coefficient_follows_iec_60028() {
     // The resistance method inverts R(T).
     let t = c.winding_temperature(Ohms::new(r).unwrap()).unwrap();
     assert!((t.celsius() - 70.0).abs() < 0.01);
-    // α = 0 is allowed, and then the winding temperature cannot be inferred.
+    // α = 0 is allowed, and so is no coefficient at all; then the winding temperature cannot be
+    // inferred.
     let flat = Coil::new(
         Henries::new(1.0).unwrap(),
         Ohms::new(100.0).unwrap(),
         tc(60.0),
-        0.0,
+        PerKelvin::ZERO,
     )
     .unwrap();
-    assert_eq!(flat.resistance(tc(-40.0)).unwrap().value(), 100.0);
-    assert_eq!(
-        flat.winding_temperature(Ohms::new(110.0).unwrap())
-            .unwrap_err()
-            .input,
-        "alpha"
-    );
+    let none = Coil::fixed(Henries::new(1.0).unwrap(), Ohms::new(100.0).unwrap()).unwrap();
+    for coil in [flat, none] {
+        assert_eq!(coil.resistance(tc(-40.0)).unwrap().value(), 100.0);
+        assert_eq!(
+            coil.winding_temperature(Ohms::new(110.0).unwrap())
+                .unwrap_err()
+                .input,
+            "coil temperature coefficient"
+        );
+    }
 }
 
 #[test]
@@ -95,54 +102,55 @@ fn stored_energy_and_hot_pull_in() {
         .steady_current(Volts::new(12.0).unwrap(), tc(20.0))
         .unwrap();
     assert!((i.value() - 0.075).abs() < 1e-6);
-    assert!((c.stored_energy(i).value() - 0.5 * 0.9 * 0.075 * 0.075).abs() < 1e-8);
-    // Common practice: a relay's must-operate voltage rises with winding resistance; at 75 % of
-    // nominal when cold, a copper coil at +60 K needs 0.75·(1 + 0.00393·60) = 0.927 of nominal.
+    assert!((c.stored_energy(i).unwrap().value() - 0.5 * 0.9 * 0.075 * 0.075).abs() < 1e-8);
+    // Common practice: a relay operates at fixed ampere-turns, so its must-operate voltage rises
+    // with winding resistance; at 75 % of nominal when cold (at the datasheet's 20 °C), a copper
+    // coil at +60 K needs 0.75·(1 + 0.00393·60) = 0.927 of nominal.
+    let i_op = c.magnetic_current(Volts::new(9.0).unwrap()).unwrap();
+    assert!((i_op.value() - 9.0 / 160.0).abs() < 1e-7);
     let p = c
-        .pull_in_margin(
-            Volts::new(9.0).unwrap(),
-            Volts::new(12.0).unwrap(),
-            tc(80.0),
-        )
+        .pull_in_margin(i_op, Volts::new(12.0).unwrap(), tc(80.0))
         .unwrap();
     assert!((p.must_operate_hot.value() - 9.0 * (1.0 + 0.00393 * 60.0)).abs() < 1e-3);
     assert!((p.margin - (12.0 / p.must_operate_hot.value() - 1.0)).abs() < 1e-6 && p.margin > 0.0);
     let e = c
-        .pull_in_margin(
-            Volts::new(0.0).unwrap(),
-            Volts::new(12.0).unwrap(),
-            tc(80.0),
-        )
+        .pull_in_margin(Amps::new(0.0).unwrap(), Volts::new(12.0).unwrap(), tc(80.0))
         .unwrap_err();
-    assert_eq!(e.input, "must-operate voltage");
+    assert_eq!(e.input, "operate current");
 }
 
 #[test]
 fn spice_breakdown_law_and_tempco() {
-    // Source: SPICE reverse breakdown V = BV + NBV·Vt·ln(I/IBV) for I ≫ IBV (Nagel 1975).
+    // Source: SPICE reverse breakdown I = IBV·exp((V − BV)/(NBV·Vt)) with RS (Nagel 1975):
+    // V = BV + NBV·Vt·ln(I/IBV) + RS·I at every current, above and below IBV.
     let b = Breakdown::new(
         BreakdownLaw::Spice {
             bv: Volts::new(18.0).unwrap(),
             ibv: Amps::new(1e-3).unwrap(),
-            nbv: 2.0,
+            nbv: Ideality::new(2.0).unwrap(),
             rs: Ohms::new(1.5).unwrap(),
         },
-        8e-4,
+        PerKelvin::new(8e-4).unwrap(),
         tc(25.0),
     )
     .unwrap();
     let t = tc(25.0);
-    for i in [0.05f32, 0.5, 2.0] {
+    for i in [1e-6f32, 1.4e-4, 1e-3, 0.05, 0.5, 2.0] {
         let got = b.voltage(Amps::new(i).unwrap(), t).unwrap().value() as f64;
         let want = 18.0 + 2.0 * vt64(298.15) * (i as f64 / 1e-3).ln() + 1.5 * i as f64;
-        assert!((got - want).abs() < 2e-3, "I={i}: {got} vs {want}");
+        assert!((got - want).abs() < 2e-5, "I={i}: {got} vs {want}");
     }
-    // Tempco: +0.08 %/K over 50 K moves BV by 4 %.
+    // Tempco: +0.08 %/K over 50 K moves BV by 4 % (at the knee current).
     let hot = b
-        .voltage(Amps::new(1e-9).unwrap(), tc(75.0))
+        .voltage(Amps::new(1e-3).unwrap(), tc(75.0))
         .unwrap()
         .value();
-    assert!((hot - 18.0 * 1.04).abs() < 1e-3, "{hot}");
+    assert!((hot - (18.0 * 1.04 + 1.5e-3)).abs() < 1e-4, "{hot}");
+    // A part-to-part tolerance scales BV and keeps the slope.
+    let plus5 = b.scaled(1.05).unwrap();
+    let d = plus5.voltage(Amps::new(0.1).unwrap(), t).unwrap().value()
+        - b.voltage(Amps::new(0.1).unwrap(), t).unwrap().value();
+    assert!((d - 0.9).abs() < 1e-4, "{d}");
     assert_eq!(
         b.voltage(Amps::new(-1.0).unwrap(), t).unwrap_err().reason,
         Reason::Negative
@@ -152,36 +160,62 @@ fn spice_breakdown_law_and_tempco() {
 #[test]
 fn ratings_and_thermal_arithmetic() {
     // P = E·f; T_j = T_a + P·R_th (steady-state thermal resistance, any power-electronics text).
-    let p = average_power(Joules::new(0.02).unwrap(), 5.0).unwrap();
+    let p = average_power(Joules::new(0.02).unwrap(), Hertz::new(5.0).unwrap()).unwrap();
     assert!((p.value() - 0.1).abs() < 1e-7);
-    let path = ThermalPath::new(200.0, tc(55.0), tc(150.0)).unwrap();
+    let path = ThermalPath {
+        resistance_k_per_w: 200.0,
+        ambient: tc(55.0),
+        junction_max: tc(150.0),
+    };
     let c = path.check(p).unwrap();
     assert!((c.junction.celsius() - 75.0).abs() < 1e-3);
     assert!((c.headroom.kelvin() - 75.0).abs() < 1e-3);
     assert!(c.verdict.pass && (c.verdict.margin - (95.0 / 20.0 - 1.0)).abs() < 1e-4);
-    assert!((path.max_power().value() - 95.0 / 200.0).abs() < 1e-6);
+    assert!((path.max_power().unwrap().value() - 95.0 / 200.0).abs() < 1e-6);
     // Fastest rate: thermal limit 0.475 W / 0.02 J = 23.75 Hz, unless the decay is slower.
     let f = path
-        .max_repetition_rate_hz(Joules::new(0.02).unwrap(), Seconds::new(0.01).unwrap())
-        .unwrap();
+        .max_repetition_rate(Joules::new(0.02).unwrap(), Seconds::new(0.01).unwrap())
+        .unwrap()
+        .value();
     assert!((f - 23.75).abs() < 1e-3, "{f}");
     let f = path
-        .max_repetition_rate_hz(Joules::new(0.02).unwrap(), Seconds::new(0.1).unwrap())
-        .unwrap();
+        .max_repetition_rate(Joules::new(0.02).unwrap(), Seconds::new(0.1).unwrap())
+        .unwrap()
+        .value();
     assert!((f - 10.0).abs() < 1e-4, "{f}");
-    let v = single_pulse(Joules::new(0.2).unwrap(), Joules::new(0.1).unwrap()).unwrap();
+    let f = max_repetition_rate(
+        Seconds::new(0.01).unwrap(),
+        Joules::new(0.02).unwrap(),
+        path.max_power().unwrap(),
+    )
+    .unwrap()
+    .value();
+    assert!((f - 23.75).abs() < 1e-3, "{f}");
+    let rating = PulseRating::new(Joules::new(0.1).unwrap()).unwrap();
+    let v = single_pulse(Joules::new(0.2).unwrap(), rating).unwrap();
     assert!(!v.pass && (v.margin + 0.5).abs() < 1e-6);
     assert!(!path.check(Watts::new(1.0).unwrap()).unwrap().verdict.pass);
+    let bad = ThermalPath {
+        resistance_k_per_w: 0.0,
+        ..path
+    };
+    assert_eq!(bad.max_power().unwrap_err().input, "thermal resistance");
+    // Issue: a 1e-30 K/W path gave +∞ W; it is outside the accepted range now.
+    let tiny = ThermalPath {
+        resistance_k_per_w: 1e-30,
+        ..path
+    };
     assert_eq!(
-        ThermalPath::new(0.0, tc(25.0), tc(150.0))
-            .unwrap_err()
-            .input,
-        "thermal resistance"
+        tiny.max_power().unwrap_err().reason,
+        Reason::OutsideValidatedRange
     );
+    let inverted = ThermalPath {
+        resistance_k_per_w: 10.0,
+        ambient: tc(160.0),
+        junction_max: tc(150.0),
+    };
     assert_eq!(
-        ThermalPath::new(10.0, tc(160.0), tc(150.0))
-            .unwrap_err()
-            .reason,
+        inverted.max_power().unwrap_err().reason,
         Reason::Inconsistent
     );
 }
@@ -200,7 +234,7 @@ fn zener_window_edges_meet_their_requirements() {
             tc(20.0),
         )
         .unwrap(),
-        diode: DiodeParams::SILICON,
+        diode: Diode::Law(DiodeParams::SILICON),
         zener_rz: Ohms::new(10.0).unwrap(),
         zener_izt: Amps::new(0.01).unwrap(),
         v_supply: Volts::new(26.4).unwrap(),
@@ -208,7 +242,7 @@ fn zener_window_edges_meet_their_requirements() {
         t_coil: t,
         t_clamp: t,
         switch_rating: Volts::new(60.0).unwrap(),
-        rating_fraction: 0.8,
+        rating_fraction: Duty::new(0.8).unwrap(),
         release_current: Amps::new(0.05).unwrap(),
         max_release_time: Seconds::new(5e-3).unwrap(),
     };
@@ -227,7 +261,7 @@ fn zener_window_edges_meet_their_requirements() {
                 izt: s.zener_izt,
                 rz: s.zener_rz,
             },
-            0.0,
+            PerKelvin::ZERO,
             t,
         )
         .unwrap();
@@ -237,10 +271,8 @@ fn zener_window_edges_meet_their_requirements() {
                 zener: z,
                 diode: s.diode,
             },
-            s.v_supply,
-            s.i_start,
-            t,
-            t,
+            Side::Low,
+            &Operating::uniform(s.v_supply, s.i_start, t),
         )
         .unwrap()
         .time_to(s.release_current)
@@ -265,7 +297,7 @@ fn zener_window_edges_meet_their_requirements() {
     };
     assert_eq!(tiny.window().unwrap_err().input, "switch rating");
     let bad = ZenerSizing {
-        rating_fraction: 1.5,
+        rating_fraction: Duty::new(0.0).unwrap(),
         ..s
     };
     assert_eq!(

@@ -23,8 +23,8 @@ use kickguard::diagnosis::hal::{measure_flyback, MeasureError};
 use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::windows::winding_temperature_from_current;
 use kickguard::diagnosis::{Condition, Design, Measurement, Verdict};
-use kickguard::diode::DiodeParams;
-use kickguard::{Amps, Henries, Ohms, Reason, Seconds, Temperature, Volts};
+use kickguard::diode::{Diode, DiodeParams};
+use kickguard::{Amps, Duty, Henries, Hertz, Ohms, PerKelvin, Reason, Seconds, Temperature, Volts};
 use ode_solvers::{Dopri5, SVector, System};
 
 fn tc(c: f32) -> Temperature {
@@ -35,6 +35,9 @@ fn v(x: f32) -> Volts {
 }
 fn a(x: f32) -> Amps {
     Amps::new(x).unwrap()
+}
+fn hz(f: f32) -> Hertz {
+    Hertz::new(f).unwrap()
 }
 
 const VZ: f64 = 24.0;
@@ -49,7 +52,7 @@ fn design() -> Design {
             izt: a(IZT as f32),
             rz: Ohms::new(RZ as f32).unwrap(),
         },
-        0.0,
+        PerKelvin::ZERO,
         tc(25.0),
     )
     .unwrap();
@@ -71,7 +74,7 @@ fn design() -> Design {
         t_clamp_max: tc(70.0),
         clamp: Clamp::ZenerDiode {
             zener,
-            diode: DiodeParams::SILICON,
+            diode: Diode::Law(DiodeParams::SILICON),
         },
         switch_avalanche: Breakdown::ideal(v(V_AV as f32)).unwrap(),
         shorted_turns: 0.2,
@@ -161,8 +164,10 @@ fn classifier_gets_ode_generated_measurements_right() {
         upper: a(0.080),
         lower: a(0.010),
     };
-    let tick_hz = 100_000.0;
-    let windows = d.tick_windows(&m, tick_hz, 0.0).unwrap();
+    let tick_hz = 100_000.0f32;
+    let windows = d
+        .tick_windows(&m, hz(tick_hz), Duty::new(0.0).unwrap())
+        .unwrap();
     let (_, seps) = d.separations(&m).unwrap();
     let detectable = |c: Condition| seps.iter().any(|s| s.condition == c && s.detectable);
     for cond in [
@@ -258,7 +263,9 @@ fn comparator_measurement_and_undetectable_faults() {
         .find(|s| s.condition == Condition::CoilOpen)
         .unwrap();
     assert_eq!(open.window.max.value(), 0.0);
-    let w = d.tick_windows(&m, 100_000.0, 0.02).unwrap();
+    let w = d
+        .tick_windows(&m, hz(100_000.0), Duty::new(0.02).unwrap())
+        .unwrap();
     assert_eq!(w.classify(0), Verdict::Ambiguous);
     // Bad thresholds are errors.
     let bad = Measurement::BetweenCurrents {
@@ -337,9 +344,16 @@ fn temperature_bands_narrow_the_healthy_window() {
         upper: a(0.080),
         lower: a(0.010),
     };
-    let full = d.tick_windows(&m, 100_000.0, 0.0).unwrap();
+    let full = d
+        .tick_windows(&m, hz(100_000.0), Duty::new(0.0).unwrap())
+        .unwrap();
     let banded = d
-        .banded_tick_windows(&m, 100_000.0, 0.0, [tc(30.0), tc(70.0)])
+        .banded_tick_windows(
+            &m,
+            hz(100_000.0),
+            Duty::new(0.0).unwrap(),
+            [tc(30.0), tc(70.0)],
+        )
         .unwrap();
     let healthy = |w: &kickguard::diagnosis::Windows| {
         w.entries()
@@ -360,7 +374,12 @@ fn temperature_bands_narrow_the_healthy_window() {
         Verdict::Healthy
     );
     let e = d
-        .banded_tick_windows(&m, 100_000.0, 0.0, [tc(50.0), tc(40.0)])
+        .banded_tick_windows(
+            &m,
+            hz(100_000.0),
+            Duty::new(0.0).unwrap(),
+            [tc(50.0), tc(40.0)],
+        )
         .unwrap_err();
     assert_eq!(e.reason, Reason::NotIncreasing);
 }

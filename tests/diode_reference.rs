@@ -9,7 +9,9 @@
 //! - The `roots` crate's Brent solver (crates.io), in f64, for the diode-plus-resistor current.
 //! - Rules of thumb of the trade, marked "common practice".
 
-use kickguard::diode::{fit_three_points, fit_two_points, DiodeParams, DropPoint};
+use kickguard::diode::{
+    fit_three_points, fit_two_points, BandGap, DiodeParams, DropPoint, Ideality, Xti,
+};
 use kickguard::{Amps, Ohms, Reason, Temperature, Volts};
 
 mod common;
@@ -22,20 +24,21 @@ fn a(x: f32) -> Amps {
     Amps::new(x).unwrap()
 }
 
+fn mk_diode(is: f32, n: f32, rs: f32, eg: f32, xti: f32, tnom_c: f32) -> DiodeParams {
+    DiodeParams::new(
+        Amps::new(is).unwrap(),
+        Ideality::new(n).unwrap(),
+        Ohms::new(rs).unwrap(),
+        BandGap::ev(eg).unwrap(),
+        Xti::new(xti).unwrap(),
+        t(tnom_c),
+    )
+    .unwrap()
+}
+
 /// A spread of "sane" parameter sets: the presets and corners of the usual ranges.
 fn sane_diodes() -> Vec<DiodeParams> {
-    let tn = Temperature::from_celsius(27.0).unwrap();
-    let mk = |is: f32, n: f32, rs: f32, eg: f32, xti: f32| {
-        DiodeParams::new(
-            Amps::new(is).unwrap(),
-            n,
-            Ohms::new(rs).unwrap(),
-            eg,
-            xti,
-            tn,
-        )
-        .unwrap()
-    };
+    let mk = |is: f32, n: f32, rs: f32, eg: f32, xti: f32| mk_diode(is, n, rs, eg, xti, 27.0);
     vec![
         DiodeParams::SILICON,
         DiodeParams::SCHOTTKY,
@@ -102,6 +105,85 @@ fn forward_drop_within_1mv_of_f64_law() {
     }
     // Far tighter than the requirement in practice; keep an eye on regressions.
     assert!(worst < 1e-4, "worst error {worst:e} V");
+}
+
+#[test]
+fn accepted_parameter_box_is_validated_at_every_corner() {
+    // Source: Shockley equation + RS with the SPICE2 temperature law, f64 (Nagel 1975). The
+    // accepted ranges of `DiodeParams::new` are the ones the model is validated for: at every
+    // corner of the box (IS 1e-20…1e-2 A, N 0.5…5, RS 0…100 Ω, EG 0.4…3.6 eV, XTI 0…10,
+    // TNOM −55…150 °C) the drop is within 1 mV (or 1e-6 relative above 1 kV) of the f64 law
+    // from −40 to 150 °C and 1 µA to 10 A, or a typed error where it would underflow.
+    let mut worst = 0.0f64;
+    let mut checked = 0u32;
+    for k in 0..64u32 {
+        let pick = |bit: u32, lo: f32, hi: f32| if k & (1 << bit) == 0 { lo } else { hi };
+        let d = mk_diode(
+            pick(0, 1e-20, 1e-2),
+            pick(1, 0.5, 5.0),
+            pick(2, 0.0, 100.0),
+            pick(3, 0.4, 3.6),
+            pick(4, 0.0, 10.0),
+            pick(5, -55.0, 150.0),
+        );
+        for c in (-40..=150).step_by(38) {
+            for e in 0..=7 {
+                let i = 1e-6f64 * 10f64.powi(e);
+                let want = v64(&d, (i as f32) as f64, c as f64 + 273.15);
+                match d.forward_drop(a(i as f32), t(c as f32)) {
+                    Ok(v) => {
+                        let err = (v.value() as f64 - want).abs();
+                        let tol = 1e-3f64.max(1e-6 * want.abs());
+                        worst = worst.max(err / tol);
+                        assert!(err <= tol, "{d:?} I={i:e} T={c}: {v} vs {want}");
+                        checked += 1;
+                    }
+                    Err(e) => {
+                        // Only a drop that underflows the quantity range may be refused.
+                        assert_eq!((e.input, e.reason), ("forward drop", Reason::TooSmall));
+                        assert!(
+                            want < 1e-29,
+                            "{d:?} I={i:e} T={c}: refused a drop of {want}"
+                        );
+                    }
+                }
+            }
+        }
+    }
+    assert!(checked > 2000, "only {checked} corners checked");
+    println!("worst error over the box: {worst:.3} of the tolerance");
+}
+
+#[test]
+fn parameters_outside_the_validated_box_are_refused() {
+    // Issue cases: IS 1e-30, N 0.3, EG 0 or 5, XTI −20, TNOM −100 °C used to be accepted.
+    let e = |r: Result<DiodeParams, kickguard::Error>| r.unwrap_err();
+    let ok = |x: f32| Amps::new(x).unwrap();
+    let (n1, rs0) = (Ideality::new(1.0).unwrap(), Ohms::new(0.0).unwrap());
+    let (eg, xti) = (BandGap::SILICON, Xti::PN);
+    assert_eq!(
+        e(DiodeParams::new(ok(1e-30), n1, rs0, eg, xti, t(27.0))).input,
+        "IS"
+    );
+    assert_eq!(
+        e(DiodeParams::new(
+            ok(1e-14),
+            Ideality::new(0.3).unwrap(),
+            rs0,
+            eg,
+            xti,
+            t(27.0)
+        ))
+        .input,
+        "N"
+    );
+    assert_eq!(BandGap::ev(0.0).unwrap_err().input, "EG");
+    assert_eq!(BandGap::ev(5.0).unwrap_err().input, "EG");
+    assert_eq!(Xti::new(-20.0).unwrap_err().input, "XTI");
+    assert_eq!(
+        e(DiodeParams::new(ok(1e-14), n1, rs0, eg, xti, t(-100.0))).input,
+        "TNOM"
+    );
 }
 
 #[test]
@@ -176,7 +258,7 @@ fn series_current_matches_independent_brent_solve() {
                     let got = d.series_current(Volts::new(v).unwrap(), Ohms::new(r).unwrap(), t(c));
                     let tk = c as f64 + 273.15;
                     let rt = r as f64 + d.rs().value() as f64;
-                    let nvt = d.n() as f64 * vt64(tk);
+                    let nvt = d.n().value() as f64 * vt64(tk);
                     let is_t = ln_is64(&d, tk).exp();
                     let f = |i: f64| i * rt + nvt * (i / is_t).ln_1p() - v as f64;
                     // Upper bounds on the root: the resistor takes all of V, or the diode does.
@@ -293,16 +375,17 @@ fn fits_recover_the_parameters_that_made_the_points() {
             truth.is(),
             truth.n(),
             truth.rs(),
-            truth.eg_ev(),
+            truth.eg(),
             truth.xti(),
             tn,
         )
         .unwrap();
+        let n_true = truth.n().value();
         let p3 = points64(&truth, &[1e-3, 0.1, 3.0], 25.0);
-        let f3 = fit_three_points([p3[0], p3[1], p3[2]], tn, truth.eg_ev(), truth.xti()).unwrap();
+        let f3 = fit_three_points([p3[0], p3[1], p3[2]], tn, truth.eg(), truth.xti()).unwrap();
         assert!(
-            (f3.n() - truth.n()).abs() < 2e-3 * truth.n(),
-            "{truth:?} → N {}",
+            (f3.n().value() - n_true).abs() < 2e-3 * n_true,
+            "{truth:?} → N {:?}",
             f3.n()
         );
         assert!(
@@ -317,31 +400,32 @@ fn fits_recover_the_parameters_that_made_the_points() {
         );
 
         let p2 = points64(&truth, &[1e-4, 1e-2], 25.0);
-        let f2 =
-            fit_two_points([p2[0], p2[1]], tn, truth.rs(), truth.eg_ev(), truth.xti()).unwrap();
+        let f2 = fit_two_points([p2[0], p2[1]], tn, truth.rs(), truth.eg(), truth.xti()).unwrap();
         assert!(
-            (f2.n() - truth.n()).abs() < 2e-3 * truth.n(),
-            "{truth:?} → N {}",
+            (f2.n().value() - n_true).abs() < 2e-3 * n_true,
+            "{truth:?} → N {:?}",
             f2.n()
         );
 
         // EG from a second-temperature point and from the tempco both recover the truth.
         let hot = points64(&truth, &[1e-2], 100.0)[0];
+        let eg_true = truth.eg().value_ev();
         let fe = truth
             .with_rs(truth.rs())
+            .unwrap()
             .with_eg_from_point(hot, t(100.0))
             .unwrap();
         assert!(
-            (fe.eg_ev() - truth.eg_ev()).abs() < 0.01,
-            "{truth:?} → EG {}",
-            fe.eg_ev()
+            (fe.eg().value_ev() - eg_true).abs() < 0.01,
+            "{truth:?} → EG {:?}",
+            fe.eg()
         );
         let tc = truth.forward_tempco_v_per_k(a(1e-3), tn).unwrap();
         let fe = truth.with_eg_from_tempco(a(1e-3), tc).unwrap();
         assert!(
-            (fe.eg_ev() - truth.eg_ev()).abs() < 0.01,
-            "{truth:?} → EG {}",
-            fe.eg_ev()
+            (fe.eg().value_ev() - eg_true).abs() < 0.01,
+            "{truth:?} → EG {:?}",
+            fe.eg()
         );
     }
 }
@@ -350,22 +434,22 @@ fn fits_recover_the_parameters_that_made_the_points() {
 fn fits_refuse_inconsistent_points() {
     let tn = t(25.0);
     let rs0 = Ohms::new(0.0).unwrap();
+    let (si, pn) = (BandGap::SILICON, Xti::PN);
     let p = |i: f32, v: f32| DropPoint::new(i, v).unwrap();
     // Currents out of order.
-    let e = fit_two_points([p(0.1, 0.8), p(0.001, 0.6)], tn, rs0, 1.11, 3.0).unwrap_err();
+    let e = fit_two_points([p(0.1, 0.8), p(0.001, 0.6)], tn, rs0, si, pn).unwrap_err();
     assert_eq!(
         (e.input, e.reason),
         ("point current", Reason::NotIncreasing)
     );
     // A drop that falls as current rises.
-    let e = fit_two_points([p(0.001, 0.7), p(0.1, 0.6)], tn, rs0, 1.11, 3.0).unwrap_err();
+    let e = fit_two_points([p(0.001, 0.7), p(0.1, 0.6)], tn, rs0, si, pn).unwrap_err();
     assert_eq!((e.input, e.reason), ("point voltage", Reason::Inconsistent));
     // Absurd slope: 3 V per decade is no diode (N ≈ 50).
-    let e = fit_two_points([p(0.001, 0.5), p(0.01, 3.5)], tn, rs0, 1.11, 3.0).unwrap_err();
+    let e = fit_two_points([p(0.001, 0.5), p(0.01, 3.5)], tn, rs0, si, pn).unwrap_err();
     assert_eq!(e.reason, Reason::Inconsistent);
     // Curve bending the wrong way (concave in ln I) means negative RS.
-    let e =
-        fit_three_points([p(0.001, 0.6), p(0.1, 0.85), p(3.0, 0.9)], tn, 1.11, 3.0).unwrap_err();
+    let e = fit_three_points([p(0.001, 0.6), p(0.1, 0.85), p(3.0, 0.9)], tn, si, pn).unwrap_err();
     assert_eq!((e.input, e.reason), ("points", Reason::Inconsistent));
     // A hotter drop that is higher: EG would be negative.
     let e = DiodeParams::SILICON

@@ -10,9 +10,9 @@ mod common;
 
 use common::v64;
 use kickguard::breakdown::Breakdown;
-use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
+use kickguard::diode::{Diode, DiodeParams};
 use kickguard::{Amps, Henries, Ohms, Reason, Temperature, Volts};
 
 fn tc(c: f32) -> Temperature {
@@ -20,13 +20,7 @@ fn tc(c: f32) -> Temperature {
 }
 
 fn coil(l: f32, r: f32) -> Coil {
-    Coil::new(
-        Henries::new(l).unwrap(),
-        Ohms::new(r).unwrap(),
-        tc(25.0),
-        0.0,
-    )
-    .unwrap()
+    Coil::fixed(Henries::new(l).unwrap(), Ohms::new(r).unwrap()).unwrap()
 }
 
 /// f64 Simpson in u = ln i of L·i/g(i) from i1 to i0 (tests/common), 40 000 intervals.
@@ -50,11 +44,9 @@ fn decay_over_the_tau_and_current_extremes() {
             for &c in &[-55.0f32, 25.0, 175.0] {
                 let off = SwitchOff::new(
                     &coil(l, r),
-                    &Clamp::FreewheelDiode(si),
-                    Volts::new(24.0).unwrap(),
-                    Amps::new(i0).unwrap(),
-                    tc(c),
-                    tc(c),
+                    &Clamp::FreewheelDiode(Diode::Law(si)),
+                    Side::Low,
+                    &Operating::uniform(Volts::new(24.0).unwrap(), Amps::new(i0).unwrap(), tc(c)),
                 )
                 .unwrap();
                 let i1 = i0 * 1e-2;
@@ -82,10 +74,8 @@ fn clamp_barely_above_the_supply() {
         let off = SwitchOff::new(
             &coil(l, r),
             &Clamp::Avalanche(Breakdown::ideal(Volts::new(vbr).unwrap()).unwrap()),
-            Volts::new(vs).unwrap(),
-            Amps::new(i0).unwrap(),
-            tc(25.0),
-            tc(25.0),
+            Side::Low,
+            &Operating::uniform(Volts::new(vs).unwrap(), Amps::new(i0).unwrap(), tc(25.0)),
         )
         .unwrap();
         let d = off.decay_to(Amps::new(0.0).unwrap()).unwrap();
@@ -100,10 +90,8 @@ fn clamp_barely_above_the_supply() {
         let e = SwitchOff::new(
             &coil(l, r),
             &Clamp::Avalanche(Breakdown::ideal(Volts::new(vs).unwrap()).unwrap()),
-            Volts::new(vs).unwrap(),
-            Amps::new(i0).unwrap(),
-            tc(25.0),
-            tc(25.0),
+            Side::Low,
+            &Operating::uniform(Volts::new(vs).unwrap(), Amps::new(i0).unwrap(), tc(25.0)),
         )
         .unwrap_err();
         assert_eq!(
@@ -139,16 +127,20 @@ fn temperatures_at_and_beyond_the_validated_range() {
     }
     let e = SwitchOff::new(
         &coil(1.0, 10.0),
-        &Clamp::FreewheelDiode(si),
-        Volts::new(24.0).unwrap(),
-        Amps::new(1.0).unwrap(),
-        tc(25.0),
-        tc(300.0),
+        &Clamp::FreewheelDiode(Diode::Law(si)),
+        Side::Low,
+        &Operating {
+            supply: Volts::new(24.0).unwrap(),
+            start_current: Amps::new(1.0).unwrap(),
+            winding: tc(25.0),
+            diodes: tc(300.0),
+            breakdown: tc(300.0),
+        },
     )
     .unwrap_err();
     assert_eq!(
         (e.input, e.reason),
-        ("clamp temperature", Reason::OutsideValidatedRange)
+        ("diode temperature", Reason::OutsideValidatedRange)
     );
 }
 
@@ -158,11 +150,13 @@ fn end_currents_far_below_the_start() {
     // beyond (the work is bounded).
     let off = SwitchOff::new(
         &coil(0.35, 56.0),
-        &Clamp::FreewheelDiode(DiodeParams::SILICON),
-        Volts::new(24.0).unwrap(),
-        Amps::new(100.0).unwrap(),
-        tc(25.0),
-        tc(25.0),
+        &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        Side::Low,
+        &Operating::uniform(
+            Volts::new(24.0).unwrap(),
+            Amps::new(100.0).unwrap(),
+            tc(25.0),
+        ),
     )
     .unwrap();
     assert!(off

@@ -55,16 +55,17 @@ fn fast_constant_clamp_time_within_its_budget() {
         (0.9, 160.0, 1.0),
         (1e-3, 0.1, 30.0),
     ] {
-        let c = ConstantClamp::new(
-            Henries::new(l).unwrap(),
-            Ohms::new(r).unwrap(),
-            Volts::new(vc).unwrap(),
-        )
-        .unwrap();
         for &(i0, i1) in &[(0.43f32, 0.0f32), (0.43, 0.043), (20.0, 1.0)] {
-            let (i0, i1) = (Amps::new(i0).unwrap(), Amps::new(i1).unwrap());
-            let exact = c.time_to(i0, i1).unwrap().value();
-            let quick = fast::constant_clamp_time(&c, i0, i1).unwrap().value();
+            let c = ConstantClamp::new(
+                Henries::new(l).unwrap(),
+                Ohms::new(r).unwrap(),
+                Volts::new(vc).unwrap(),
+                Amps::new(i0).unwrap(),
+            )
+            .unwrap();
+            let i1 = Amps::new(i1).unwrap();
+            let exact = c.time_to(i1).unwrap().value();
+            let quick = fast::constant_clamp_time(&c, i1).unwrap().value();
             assert!(((exact - quick) / exact).abs() < 2e-3, "{exact} vs {quick}");
         }
     }

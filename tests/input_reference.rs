@@ -13,15 +13,20 @@
 mod common;
 
 use common::v64;
-use kickguard::diode::DiodeParams;
+use kickguard::breakdown::Breakdown;
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
+use kickguard::coil::Coil;
+use kickguard::diode::{Diode, DiodeParams};
 use kickguard::input::board::{Board, BoardInput};
-use kickguard::input::rail::{neighbour_adc_error, rail_off_check, rail_on_check, shared_clamp};
+use kickguard::input::rail::{
+    neighbour_adc_error, rail_off_check, shared_clamp, RailLoad, UnpoweredRail,
+};
 use kickguard::input::resistor::{
     max_resistor, min_resistor, resistor_power, resistor_window, transient_energy, InjectionLimits,
-    UpperLimit, UpperLimits,
+    LogicHigh, UpperLimit, UpperLimits,
 };
-use kickguard::input::{Pin, PinClamp, SignalRange};
-use kickguard::{Amps, Farads, Ohms, Reason, Seconds, Temperature, Volts};
+use kickguard::input::{Pin, SignalRange};
+use kickguard::{Amps, Farads, Henries, Ohms, Reason, Seconds, Temperature, Volts};
 
 fn tc(c: f32) -> Temperature {
     Temperature::from_celsius(c).unwrap()
@@ -36,7 +41,17 @@ fn ma(x: f32) -> Amps {
     Amps::new(x * 1e-3).unwrap()
 }
 fn si_pin(vdd: f32, c: f32) -> Pin {
-    Pin::new(v(vdd), PinClamp::DiodeLaw(DiodeParams::SILICON), tc(c)).unwrap()
+    Pin::new(v(vdd), Diode::Law(DiodeParams::SILICON), tc(c)).unwrap()
+}
+/// A signal range from its four voltages (steady min/max, transient min/max) and a width.
+fn range(smin: f32, smax: f32, tmin: f32, tmax: f32, width: f32) -> SignalRange {
+    SignalRange {
+        steady_min: v(smin),
+        steady_max: v(smax),
+        transient_min: v(tmin),
+        transient_max: v(tmax),
+        transient_width: Seconds::new(width).unwrap(),
+    }
 }
 
 /// Brent (roots crate) solve of V = I·R + V_D(I) in f64 with the SPICE2 law (tests/common).
@@ -53,8 +68,7 @@ fn brent_current(d: &DiodeParams, volts: f64, r: f64, t_k: f64) -> f64 {
 #[test]
 fn two_diode_limiter_holds_about_six_to_eight_tenths_of_a_volt() {
     // Common practice: antiparallel silicon diodes to ground hold a line at about ±0.6–0.8 V.
-    let limiter =
-        Pin::limiter_to_ground(PinClamp::DiodeLaw(DiodeParams::SILICON), tc(25.0)).unwrap();
+    let limiter = Pin::limiter_to_ground(Diode::Law(DiodeParams::SILICON), tc(25.0)).unwrap();
     for &vs in &[5.0f32, 10.0, 24.0] {
         let up = limiter.pin_voltage(v(vs), ohm(10_000.0)).unwrap().value();
         let down = limiter.pin_voltage(v(-vs), ohm(10_000.0)).unwrap().value();
@@ -69,7 +83,7 @@ fn two_diode_limiter_holds_about_six_to_eight_tenths_of_a_volt() {
 #[test]
 fn fixed_drop_clamp_is_ohms_law() {
     // Ohm's law: (24 V − 3.3 V − 0.3 V)/10 kΩ = 2.04 mA, and nothing below the rail.
-    let pin = Pin::new(v(3.3), PinClamp::FixedDrop(v(0.3)), tc(25.0)).unwrap();
+    let pin = Pin::new(v(3.3), Diode::FixedDrop(v(0.3)), tc(25.0)).unwrap();
     let i = pin.injection(v(24.0), ohm(10_000.0)).unwrap().value();
     assert!((i - 2.04e-3).abs() < 1e-9, "{i}");
     assert_eq!(pin.injection(v(3.0), ohm(10_000.0)).unwrap().value(), 0.0);
@@ -127,14 +141,7 @@ fn minimum_resistor_puts_the_injection_exactly_at_the_limit() {
     // Common practice: injection limits of a few mA per pin. At R_min the worst transient injects
     // exactly the limit (by construction, checked with the independent injection solve).
     let pin = si_pin(3.0, 85.0);
-    let s = SignalRange::new(
-        v(0.0),
-        v(24.0),
-        v(-12.0),
-        v(30.0),
-        Seconds::new(1e-3).unwrap(),
-    )
-    .unwrap();
+    let s = range(0.0, 24.0, -12.0, 30.0, 1e-3);
     let lim = InjectionLimits {
         positive: ma(5.0),
         negative: ma(2.0),
@@ -174,7 +181,11 @@ fn maximum_resistor_from_each_limit() {
     let up = UpperLimits {
         leakage: Some((Amps::new(1e-6).unwrap(), v(0.01))),
         adc_max_source: Some(ohm(50_000.0)),
-        logic_high: Some((Amps::new(1e-6).unwrap(), v(10.0), v(2.0))),
+        logic_high: Some(LogicHigh {
+            leakage: Amps::new(1e-6).unwrap(),
+            signal_high_min: v(10.0),
+            v_ih: v(2.0),
+        }),
         ..UpperLimits::default()
     };
     let (r, which) = max_resistor(&up).unwrap();
@@ -185,14 +196,7 @@ fn maximum_resistor_from_each_limit() {
     );
     // A window that cannot close is an error naming the resistor.
     let pin = si_pin(3.0, 85.0);
-    let s = SignalRange::new(
-        v(0.0),
-        v(24.0),
-        v(0.0),
-        v(66.0),
-        Seconds::new(1e-3).unwrap(),
-    )
-    .unwrap();
+    let s = range(0.0, 24.0, 0.0, 66.0, 1e-3);
     let lim = InjectionLimits {
         positive: ma(1.0),
         negative: ma(1.0),
@@ -210,7 +214,7 @@ fn external_schottky_takes_most_of_the_current() {
     // with nested `roots` Brent solves, independently of the crate.
     let t_k = 298.15;
     let (si, sk) = (DiodeParams::SILICON, DiodeParams::SCHOTTKY);
-    let got = shared_clamp(v(3.3), &si, &sk, tc(25.0), v(24.0), ohm(4700.0)).unwrap();
+    let got = shared_clamp(&si_pin(3.3, 25.0), &sk, v(24.0), ohm(4700.0)).unwrap();
     let i_at = |d: &DiodeParams, vd: f64| {
         if vd <= 0.0 {
             return 0.0;
@@ -248,10 +252,14 @@ fn external_schottky_takes_most_of_the_current() {
 #[test]
 fn rail_back_powering_on_and_off() {
     // Rail on: injected total against the minimum load (the regulator cannot sink).
-    assert!(!rail_on_check(ma(9.0), ma(8.0)).unwrap().pass);
+    assert!(!RailLoad::new(ma(8.0)).unwrap().check(ma(9.0)).unwrap().pass);
     // Rail off: I = series current through R + R_load (Brent, f64), V_rail = I·R_load (Ohm's law).
     let pin = si_pin(3.3, 25.0);
-    let off = rail_off_check(&pin, v(24.0), ohm(10_000.0), ohm(1000.0), v(0.5)).unwrap();
+    let rail = UnpoweredRail {
+        load: ohm(1000.0),
+        allowed: v(0.5),
+    };
+    let off = rail_off_check(&pin, v(24.0), ohm(10_000.0), &rail).unwrap();
     let i = brent_current(&DiodeParams::SILICON, 24.0, 11_000.05, 298.15);
     assert!(((off.current.value() as f64 - i) / i).abs() < 1e-4);
     assert!((off.rail_voltage.value() as f64 - i * 1000.0).abs() < 1e-4);
@@ -283,10 +291,37 @@ fn board_check_totals_and_capacity() {
             positive: ma(20.0),
             negative: ma(20.0),
         },
-        Some(ma(8.0)),
+        Some(RailLoad::new(ma(8.0)).unwrap()),
     );
-    let drain =
-        SignalRange::drain_sense_open_diode(v(24.0), v(66.0), Seconds::new(3e-3).unwrap()).unwrap();
+    // The drain of a valve whose clamp opened: the switch avalanches at 66 V (hand check: the
+    // range reaches 66 V, for the avalanche's τ·ln(1 + I₀R/(V_BR − V_s))).
+    let valve = Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap();
+    let open = SwitchOff::new(
+        &valve,
+        &Clamp::Avalanche(Breakdown::ideal(v(66.0)).unwrap()),
+        Side::Low,
+        &Operating::uniform(v(24.0), Amps::new(0.43).unwrap(), tc(25.0)),
+    )
+    .unwrap();
+    let drain = SignalRange::output_sense(&open).unwrap();
+    assert_eq!(drain.transient_max.value(), 66.0);
+    let t_av = 0.35f64 / 56.0 * (1.0 + 0.43 * 56.0 / 42.0f64).ln();
+    assert!((drain.transient_width.value() as f64 - t_av).abs() < 1e-6 * t_av);
+    // On a high side, the same opening takes the output below ground: 24 − 66 = −42 V.
+    let high = SwitchOff::new(
+        &valve,
+        &Clamp::Avalanche(Breakdown::ideal(v(66.0)).unwrap()),
+        Side::High,
+        &Operating::uniform(v(24.0), Amps::new(0.43).unwrap(), tc(25.0)),
+    )
+    .unwrap();
+    assert_eq!(
+        SignalRange::output_sense(&high)
+            .unwrap()
+            .transient_min
+            .value(),
+        -42.0
+    );
     let lim = InjectionLimits {
         positive: ma(5.0),
         negative: ma(5.0),
@@ -326,27 +361,36 @@ fn board_check_totals_and_capacity() {
 
 #[test]
 fn bad_inputs_are_named() {
-    let e =
-        SignalRange::new(v(5.0), v(0.0), v(0.0), v(5.0), Seconds::new(1e-3).unwrap()).unwrap_err();
+    let e = range(5.0, 0.0, 0.0, 5.0, 1e-3).validate().unwrap_err();
     assert_eq!((e.input, e.reason), ("steady range", Reason::NotIncreasing));
-    let e =
-        SignalRange::new(v(0.0), v(5.0), v(1.0), v(5.0), Seconds::new(1e-3).unwrap()).unwrap_err();
+    let e = range(0.0, 5.0, 1.0, 5.0, 1e-3).validate().unwrap_err();
     assert_eq!(e.input, "transient range");
-    let e = Pin::new(v(-3.3), PinClamp::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
+    // Issue: an inverted range (24…0 V) passed `min_resistor` as 0 Ω; every consumer checks it.
+    let inverted = range(24.0, 0.0, 0.0, 24.0, 1e-3);
+    let lim = InjectionLimits {
+        positive: ma(5.0),
+        negative: ma(5.0),
+    };
+    assert_eq!(
+        min_resistor(&si_pin(3.3, 25.0), &inverted, lim)
+            .unwrap_err()
+            .input,
+        "steady range"
+    );
+    assert_eq!(
+        transient_energy(&si_pin(3.3, 25.0), &inverted, ohm(1e4))
+            .unwrap_err()
+            .input,
+        "steady range"
+    );
+    let e = Pin::new(v(-3.3), Diode::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
     assert_eq!((e.input, e.reason), ("pin supply", Reason::NotPositive));
-    let e = Pin::new(v(0.0), PinClamp::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
+    let e = Pin::new(v(0.0), Diode::FixedDrop(v(0.3)), tc(25.0)).unwrap_err();
     assert_eq!((e.input, e.reason), ("pin supply", Reason::NotPositive));
-    let e = Pin::new(v(3.3), PinClamp::FixedDrop(v(0.0)), tc(25.0)).unwrap_err();
-    assert_eq!(e.input, "clamp drop");
+    let e = Pin::new(v(3.3), Diode::FixedDrop(v(0.0)), tc(25.0)).unwrap_err();
+    assert_eq!(e.input, "diode drop");
     let pin = si_pin(3.3, 25.0);
-    let s = SignalRange::new(
-        v(0.0),
-        v(24.0),
-        v(0.0),
-        v(24.0),
-        Seconds::new(1e-3).unwrap(),
-    )
-    .unwrap();
+    let s = range(0.0, 24.0, 0.0, 24.0, 1e-3);
     let e = min_resistor(
         &pin,
         &s,
@@ -360,7 +404,4 @@ fn bad_inputs_are_named() {
         (e.input, e.reason),
         ("positive injection limit", Reason::NotPositive)
     );
-    let e = SignalRange::drain_sense_open_diode(v(24.0), v(20.0), Seconds::new(1e-3).unwrap())
-        .unwrap_err();
-    assert_eq!(e.reason, Reason::CannotClamp);
 }

@@ -11,34 +11,34 @@
 //! - A brute-force f64 simulation of the PWM waveform built from those step/decay solutions,
 //!   cycle after cycle until it settles, written here independently of the crate's closed forms.
 
-use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
+use kickguard::diode::{Diode, DiodeParams};
 use kickguard::pwm::{
-    compare_value, hold_duty, hysteretic, time_to_current, Freewheel, HoldOperatingPoint,
+    compare_value, hold_duty, hysteretic, mean_hold_current, time_to_current, Freewheel,
+    HoldOperatingPoint,
 };
 use kickguard::timing::{
-    max_repetition_rate_hz, release_current, release_time, reversal_wait, to_ticks,
+    max_repetition_rate, release_current, release_time, reversal_wait, to_ticks, to_ticks_floor,
 };
-use kickguard::{Amps, Henries, Ohms, Reason, Seconds, Temperature, Volts};
+use kickguard::{
+    Amps, Duty, Henries, Hertz, Joules, Ohms, Reason, Seconds, Temperature, Volts, Watts,
+};
 
 fn tc(c: f32) -> Temperature {
     Temperature::from_celsius(c).unwrap()
 }
 fn coil(l: f32, r: f32) -> Coil {
-    Coil::new(
-        Henries::new(l).unwrap(),
-        Ohms::new(r).unwrap(),
-        tc(25.0),
-        0.0,
-    )
-    .unwrap()
+    Coil::fixed(Henries::new(l).unwrap(), Ohms::new(r).unwrap()).unwrap()
 }
 fn fw(vd: f32, vz: f32) -> Freewheel {
-    Freewheel {
-        diode_drop: Volts::new(vd).unwrap(),
-        zener: Volts::new(vz).unwrap(),
-    }
+    Freewheel::new(Volts::new(vd).unwrap(), Volts::new(vz).unwrap()).unwrap()
+}
+fn hz(f: f32) -> Hertz {
+    Hertz::new(f).unwrap()
+}
+fn duty(d: f32) -> Duty {
+    Duty::new(d).unwrap()
 }
 
 #[test]
@@ -52,8 +52,8 @@ fn pull_in_time_is_the_rl_step_response() {
         let got = time_to_current(
             &coil(l, r),
             Volts::new(v).unwrap(),
-            Amps::new(i).unwrap(),
             tc(25.0),
+            Amps::new(i).unwrap(),
         )
         .unwrap()
         .value() as f64;
@@ -64,8 +64,8 @@ fn pull_in_time_is_the_rl_step_response() {
     let e = time_to_current(
         &coil(0.35, 56.0),
         Volts::new(24.0).unwrap(),
-        Amps::new(0.5).unwrap(),
         tc(25.0),
+        Amps::new(0.5).unwrap(),
     )
     .unwrap_err();
     assert_eq!(
@@ -133,9 +133,9 @@ fn pwm_hold_matches_brute_force_and_textbook_limits() {
             &coil(l, r),
             Volts::new(v).unwrap(),
             tc(25.0),
-            fw(vf, vz),
-            f,
-            d,
+            &fw(vf, vz),
+            hz(f),
+            duty(d),
         )
         .unwrap();
         let rp = p.ripple().unwrap();
@@ -203,21 +203,31 @@ fn duty_and_frequency_inverses() {
     let v = Volts::new(24.0).unwrap();
     let f = fw(0.8, 0.0);
     // Volt-second balance solved for D (Erickson & Maksimović, ch. 2).
-    let d = hold_duty(&c, v, Amps::new(0.15).unwrap(), tc(25.0), f).unwrap();
-    let p = HoldOperatingPoint::new(&c, v, tc(25.0), f, 20_000.0, d).unwrap();
+    let d = hold_duty(&c, v, tc(25.0), &f, Amps::new(0.15).unwrap()).unwrap();
+    let p = HoldOperatingPoint::new(&c, v, tc(25.0), &f, hz(20_000.0), d).unwrap();
     assert!((p.mean_current().unwrap().value() - 0.15).abs() < 1e-6);
+    assert_eq!(
+        mean_hold_current(&c, v, tc(25.0), &f, d).unwrap(),
+        p.mean_current().unwrap()
+    );
     // The frequency for a ripple target gives that ripple.
     let target = Amps::new(0.005).unwrap();
     let fr = p.frequency_for_ripple(target).unwrap();
-    let q = HoldOperatingPoint::new(&c, v, tc(25.0), f, fr, d).unwrap();
+    let q = HoldOperatingPoint::new(&c, v, tc(25.0), &f, fr, d).unwrap();
     let pp = q.ripple().unwrap().peak_to_peak.value();
-    assert!((pp - 0.005).abs() < 1e-5 * 0.005 + 1e-8, "{pp} at {fr} Hz");
-    let e = hold_duty(&c, v, Amps::new(1.0).unwrap(), tc(25.0), f).unwrap_err();
+    assert!((pp - 0.005).abs() < 1e-5 * 0.005 + 1e-8, "{pp} at {fr}");
+    let e = hold_duty(&c, v, tc(25.0), &f, Amps::new(1.0).unwrap()).unwrap_err();
     assert_eq!((e.input, e.reason), ("hold current", Reason::Unreachable));
-    let e = HoldOperatingPoint::new(&c, v, tc(25.0), f, 20_000.0, 1.2).unwrap_err();
+    let e = HoldOperatingPoint::new(&c, v, tc(25.0), &f, hz(20_000.0), duty(1.0)).unwrap_err();
     assert_eq!((e.input, e.reason), ("duty", Reason::OutsideValidatedRange));
-    let e = HoldOperatingPoint::new(&c, v, tc(25.0), f, 20_000.0, f32::NAN).unwrap_err();
-    assert_eq!((e.input, e.reason), ("duty", Reason::NotFinite));
+    assert_eq!(
+        Duty::new(1.2).unwrap_err().reason,
+        Reason::OutsideValidatedRange
+    );
+    assert_eq!(Duty::new(f32::NAN).unwrap_err().reason, Reason::NotFinite);
+    // Issue: a negative diode drop used to give a hold duty, a negative power and ripple.
+    let e = Freewheel::diode(Volts::new(-1.0).unwrap()).unwrap_err();
+    assert_eq!((e.input, e.reason), ("diode drop", Reason::NotPositive));
 }
 
 #[test]
@@ -228,7 +238,7 @@ fn hysteretic_hold_matches_segment_solutions() {
         &c,
         Volts::new(24.0).unwrap(),
         tc(25.0),
-        fw(0.8, 0.0),
+        &fw(0.8, 0.0),
         Amps::new(0.14).unwrap(),
         Amps::new(0.16).unwrap(),
     )
@@ -238,7 +248,7 @@ fn hysteretic_hold_matches_segment_solutions() {
     let t_off = tau * ((0.16 + vfr) / (0.14 + vfr)).ln();
     assert!(((h.on_time.value() as f64 - t_on) / t_on).abs() < 1e-4);
     assert!(((h.off_time.value() as f64 - t_off) / t_off).abs() < 1e-4);
-    assert!(((h.frequency_hz as f64 - 1.0 / (t_on + t_off)) * (t_on + t_off)).abs() < 1e-4);
+    assert!(((h.frequency.value() as f64 - 1.0 / (t_on + t_off)) * (t_on + t_off)).abs() < 1e-4);
     // The mean of a slowly rippling current sits midway between the thresholds.
     assert!(
         (h.mean_current.value() - 0.15).abs() < 2e-4,
@@ -249,7 +259,7 @@ fn hysteretic_hold_matches_segment_solutions() {
         &c,
         Volts::new(24.0).unwrap(),
         tc(25.0),
-        fw(0.8, 0.0),
+        &fw(0.8, 0.0),
         Amps::new(0.2).unwrap(),
         Amps::new(0.1).unwrap(),
     )
@@ -260,7 +270,9 @@ fn hysteretic_hold_matches_segment_solutions() {
 #[test]
 fn release_time_adds_the_mechanical_part() {
     // Source: release time = de-energise to contacts open (IEC 61810 series; from memory);
-    // modelled as electrical decay to the release current plus the mechanical time.
+    // modelled as electrical decay to the release current plus the mechanical time. The release
+    // current is the must-release voltage over R at the datasheet's reference temperature,
+    // the same at every winding temperature (fixed ampere-turns; common practice).
     let t = tc(25.0);
     let relay = Coil::copper(
         Henries::new(0.9).unwrap(),
@@ -272,15 +284,13 @@ fn release_time_adds_the_mechanical_part() {
     let i_on = relay.steady_current(v, t).unwrap();
     let off = SwitchOff::new(
         &relay,
-        &Clamp::FreewheelDiode(DiodeParams::SILICON),
-        v,
-        i_on,
-        t,
-        t,
+        &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        Side::Low,
+        &Operating::uniform(v, i_on, t),
     )
     .unwrap();
-    let i_rel = release_current(&relay, Volts::new(1.2).unwrap(), t).unwrap();
-    assert!((i_rel.value() - i_on.value() / 10.0).abs() < 1e-7);
+    let i_rel = release_current(&relay, Volts::new(1.2).unwrap()).unwrap();
+    assert!((i_rel.value() - 1.2 / 160.0).abs() < 1e-8);
     let r = release_time(&off, i_rel, Seconds::new(8e-3).unwrap()).unwrap();
     assert_eq!(r.electrical, off.time_to(i_rel).unwrap());
     assert!((r.total.value() - r.electrical.value() - 8e-3).abs() < 1e-7);
@@ -297,34 +307,43 @@ fn release_time_adds_the_mechanical_part() {
 #[test]
 fn ticks_and_compare_values_round_up() {
     // Rounding up is the safe direction for a wait and for a hold duty (common practice).
-    assert_eq!(to_ticks(Seconds::new(0.0167).unwrap(), 1000.0).unwrap(), 17);
-    assert_eq!(to_ticks(Seconds::new(0.002).unwrap(), 1000.0).unwrap(), 2);
-    assert_eq!(to_ticks(Seconds::new(0.0).unwrap(), 1000.0).unwrap(), 0);
+    let khz = hz(1000.0);
+    assert_eq!(to_ticks(Seconds::new(0.0167).unwrap(), khz).unwrap(), 17);
     assert_eq!(
-        to_ticks(Seconds::new(3600.0).unwrap(), 1e6).unwrap(),
+        to_ticks_floor(Seconds::new(0.0167).unwrap(), khz).unwrap(),
+        16
+    );
+    assert_eq!(to_ticks(Seconds::new(0.002).unwrap(), khz).unwrap(), 2);
+    assert_eq!(
+        to_ticks_floor(Seconds::new(0.002).unwrap(), khz).unwrap(),
+        2
+    );
+    assert_eq!(to_ticks(Seconds::new(0.0).unwrap(), khz).unwrap(), 0);
+    assert_eq!(
+        to_ticks(Seconds::new(3600.0).unwrap(), hz(1e6)).unwrap(),
         3_600_000_000
     );
     assert_eq!(
-        to_ticks(Seconds::new(1e4).unwrap(), 1e6)
+        to_ticks(Seconds::new(1e4).unwrap(), hz(1e6))
             .unwrap_err()
             .reason,
         Reason::TooLarge
     );
+    assert_eq!(Hertz::new(0.0).unwrap_err().reason, Reason::NotPositive);
+    assert_eq!(compare_value(duty(0.5), 1000).unwrap(), 500);
+    assert_eq!(compare_value(duty(0.5001), 1000).unwrap(), 501);
+    assert_eq!(compare_value(duty(1.0), 1000).unwrap(), 1000);
     assert_eq!(
-        to_ticks(Seconds::new(1.0).unwrap(), 0.0).unwrap_err().input,
-        "tick rate"
+        compare_value(duty(0.5), 0).unwrap_err().input,
+        "timer period"
     );
-    assert_eq!(compare_value(0.5, 1000).unwrap(), 500);
-    assert_eq!(compare_value(0.5001, 1000).unwrap(), 501);
-    assert_eq!(compare_value(1.0, 1000).unwrap(), 1000);
-    assert_eq!(compare_value(0.5, 0).unwrap_err().input, "timer period");
     // Repetition: the slower of the cycle and the thermal limit.
-    let f = max_repetition_rate_hz(
-        Seconds::new(0.1).unwrap(),
-        Seconds::new(0.0167).unwrap(),
-        0.02,
-        0.5,
+    let f = max_repetition_rate(
+        Seconds::new(0.1167).unwrap(),
+        Joules::new(0.02).unwrap(),
+        Watts::new(0.5).unwrap(),
     )
-    .unwrap();
+    .unwrap()
+    .value();
     assert!((f - (1.0f32 / 0.1167).min(25.0)).abs() < 1e-3, "{f}");
 }

@@ -1,83 +1,41 @@
-//! What happens after a low-side switch opens: the coil current's decay through the clamp, where
-//! the energy goes, and the voltage the switch sees.
+//! What happens after a switch opens: the coil current's decay through the clamp, where the
+//! energy goes, and the voltages the switch and its output see.
 //!
 //! Read in this order:
-//! 1. [`Clamp`]: the six diode/zener/avalanche topologies, and [`SwitchOff`], one switch-off event
-//!    (coil, clamp, supply, start current, temperatures).
-//! 2. [`path`]: the loop law L·di/dt = −g(i) shared by all six, and how it is integrated.
-//! 3. [`closed_form`]: the exact formulas when g is affine (constant clamp voltage plus
-//!    resistance), the textbook RL decay.
-//! 4. [`snubber`]: the seventh topology, an RC snubber across the coil (second order).
-//! 5. [`sizing`]: the inverse questions: which zener voltages meet both the switch's rating and a
-//!    required decay time.
+//! 1. [`topology`]: the suppression topologies ([`Clamp`]), the switch's [`Side`], the
+//!    [`Operating`] point at switch-off, and how each topology becomes one loop law.
+//! 2. [`SwitchOff`], one switch-off event, validated once; its queries: times to currents, the
+//!    whole [`DecayProfile`] in one pass, the decay to its end, energies, voltages, samples.
+//! 3. [`path`]: the loop law L·di/dt = −g(i) shared by every topology, where the decay ends,
+//!    and how it is integrated (closed form, or Gauss–Legendre in the log of the current).
+//! 4. [`closed_form`]: the exact formulas when g is affine (constant clamp voltage plus
+//!    resistance), the textbook RL decay, and the single-pulse avalanche energy.
+//! 5. [`snubber`]: an RC snubber across the coil (second order).
+//! 6. [`sizing`]: the inverse question: which zener voltages meet both the switch's rating and
+//!    a required decay time.
 //!
 //! Ratings and thermal checks of the energies computed here are in [`crate::rating`].
-//!
-//! ## Topologies and their loop law (current i > 0 in the coil's on-direction)
-//!
-//! | topology | g(i) | switch voltage | energy from supply |
-//! |---|---|---|---|
-//! | freewheeling diode across the coil | R·i + V_D(i) | V_s + V_D(i) | 0 |
-//! | resistor + diode across the coil | (R + R_x)·i + V_D(i) | V_s + R_x·i + V_D(i) | 0 |
-//! | zener + diode across the coil | R·i + V_Z(i) + V_D(i) | V_s + V_Z(i) + V_D(i) | 0 |
-//! | zener/TVS from switch node to ground | R·i + V_Z(i) − V_s | V_Z(i) | V_s·Q |
-//! | switch's own avalanche | R·i + V_BR(i) − V_s | V_BR(i) | V_s·Q |
-//! | H-bridge fast decay (two diodes to the supply) | R·i + 2·V_D(i) + V_s | V_s + V_D(i) | −V_s·Q (returned) |
-//!
-//! R is the coil resistance at the winding temperature, V_D the full diode law of
-//! [`crate::diode`] at the clamp temperature, V_Z/V_BR a [`crate::breakdown::Breakdown`]. Every
-//! clamp voltage rises with current, so the peak switch voltage is at the instant of switch-off.
-//! Parasitic capacitance, the switch's turn-off time and the wiring inductance are not modelled.
 
 pub mod closed_form;
 pub mod path;
+mod sample;
 pub mod sizing;
 pub mod snubber;
+pub mod topology;
 
-use crate::breakdown::{Breakdown, BreakdownAt};
+pub use topology::{ActiveClamp, Clamp, Operating, Side, SwitchedFreewheel};
+
 use crate::coil::Coil;
-use crate::diode::params::checked_t;
-use crate::diode::DiodeParams;
 use crate::error::{Error, Reason};
 use crate::math;
-use crate::physics::vt_at;
-use crate::units::{Amps, Coulombs, Joules, Ohms, Seconds, Temperature, Volts};
-use path::{DiodeAt, Integrals, LoopLaw, MAX_PANELS};
-
-/// The suppression that catches the coil's inductive kick (six diode/zener/avalanche paths; the
-/// RC snubber is [`snubber::RcSnubber`]).
-#[derive(Debug, Clone, Copy, PartialEq)]
-#[cfg_attr(feature = "defmt", derive(defmt::Format))]
-pub enum Clamp {
-    /// A freewheeling diode across the coil (full diode law).
-    FreewheelDiode(DiodeParams),
-    /// A resistor in series with a diode, across the coil.
-    ResistorDiode {
-        /// The series resistor.
-        resistor: Ohms,
-        /// The diode.
-        diode: DiodeParams,
-    },
-    /// A zener in series with a diode, across the coil.
-    ZenerDiode {
-        /// The zener (breakdown law).
-        zener: Breakdown,
-        /// The blocking diode.
-        diode: DiodeParams,
-    },
-    /// A zener or TVS from the switch node to ground.
-    SwitchZener(Breakdown),
-    /// No clamp: the switch's own avalanche at its breakdown voltage.
-    Avalanche(Breakdown),
-    /// An H-bridge's fast-decay path: both switches off, the current returns to the supply
-    /// through two diodes (the body diodes or external ones, `diode` each).
-    HBridgeFastDecay(DiodeParams),
-}
+use crate::units::{Amps, Coulombs, Joules, Seconds, Volts};
+use path::{Integrals, LoopLaw, END_FRACTION, MAX_SPAN};
+use topology::{Absorber, Placement};
 
 /// Where each joule of a decay went, and where it came from.
 ///
-/// Balance: `released_by_coil + from_supply = coil_resistance + resistor + diodes + zener + switch`,
-/// closing within the accuracy stated on [`SwitchOff::decay_to`].
+/// Balance: `released_by_coil + from_supply = coil_resistance + resistor + diodes + zener +
+/// varistor + switch`, closing within the accuracy stated on [`SwitchOff::decay_to`].
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct EnergySplit {
@@ -93,8 +51,13 @@ pub struct EnergySplit {
     pub diodes: Joules,
     /// Dissipated in a zener or TVS clamp.
     pub zener: Joules,
-    /// Dissipated in the switch (its avalanche).
+    /// Dissipated in a varistor.
+    pub varistor: Joules,
+    /// Dissipated in the switch (its avalanche, or its active clamp).
     pub switch: Joules,
+    /// Everything the suppression parts take: resistor + diodes + zener + varistor (not the
+    /// coil, not the switch).
+    pub clamp_total: Joules,
 }
 
 /// Everything about the decay from the start current down to an end current.
@@ -103,10 +66,28 @@ pub struct EnergySplit {
 pub struct Decay {
     /// Time from switch-off to the end current.
     pub time: Seconds,
+    /// The end current (zero for a decay that reaches zero).
+    pub end_current: Amps,
     /// Charge through the clamp path, ∫i·dt.
     pub charge: Coulombs,
     /// Energies.
     pub energy: EnergySplit,
+}
+
+/// A whole decay from one integration: the times to each of a list of currents, and the charge,
+/// energies and peak voltages of the decay down to the last of them.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct DecayProfile<const N: usize> {
+    /// Time from switch-off to each requested current, in the order given.
+    pub times: [Seconds; N],
+    /// The decay down to the last requested current.
+    pub decay: Decay,
+    /// Voltage across the switch at switch-off, its peak.
+    pub peak_switch_voltage: Volts,
+    /// The switched node's voltage to ground at switch-off, its extreme (above the supply for a
+    /// low-side switch, below ground for a high-side one).
+    pub peak_output_voltage: Volts,
 }
 
 /// One point of a sampled decay, for plots.
@@ -117,8 +98,11 @@ pub struct Sample {
     pub time: Seconds,
     /// Coil current.
     pub current: Amps,
-    /// Voltage from the switch's output terminal (drain) to ground.
+    /// Voltage across the switch.
     pub switch_voltage: Volts,
+    /// The switched node's voltage to ground (the drain of a low-side switch, the output of a
+    /// high-side one).
+    pub output_voltage: Volts,
 }
 
 /// Checks the start current and the supply of a switch-off (both must be positive).
@@ -134,135 +118,59 @@ pub(crate) fn start_and_supply(i_start: Amps, v_supply: Volts) -> Result<(f32, f
     Ok((i0, vs))
 }
 
-/// The switch's role, so energies land on the right device.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-#[cfg_attr(feature = "defmt", derive(defmt::Format))]
-enum Kind {
-    AcrossCoil,
-    SwitchSide,
-    Avalanche,
-    HBridge,
-}
-
-/// One switch-off event: a coil carrying a start current, its clamp, the supply, and the
-/// temperatures of the winding and of the clamp parts. Validated once; every query after that
-/// only checks its own argument.
+/// One switch-off event: a coil carrying a start current, its clamp, the switch's side, the
+/// supply, and the temperatures of the winding and of the clamp parts. Validated once; every
+/// query after that only checks its own argument.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct SwitchOff {
     law: LoopLaw,
-    kind: Kind,
+    placement: Placement,
+    absorber: Absorber,
+    side: Side,
     i0: f32,
     v_supply: f32,
 }
 
 impl SwitchOff {
-    /// Sets up the decay of `coil` (winding at `t_coil`) from `i_start` through `clamp` (parts at
-    /// `t_clamp`) with supply `v_supply`.
+    /// Sets up the decay of `coil` through `clamp`, with the switch on `side`, from the
+    /// operating point `op`.
+    ///
+    /// Work: constant, plus, for SPICE's exact breakdown law only, one bracketed root solve
+    /// (≤ 60 evaluations of the loop law) when the loop settles at a steady current.
     ///
     /// # Errors
-    /// `i_start` ≤ 0 → [`Reason::NotPositive`] on `"start current"`; `v_supply` ≤ 0 →
-    /// [`Reason::NotPositive`] on `"supply voltage"`; `t_clamp` outside the diode model's range →
-    /// [`Reason::OutsideValidatedRange`] on `"clamp temperature"`; a switch-side clamp or
-    /// avalanche whose breakdown voltage (at `t_clamp`, zero current) is at or below the supply →
-    /// [`Reason::CannotClamp`] on `"breakdown voltage"`; errors of [`Coil::resistance`].
+    /// `op.start_current` ≤ 0 → [`Reason::NotPositive`] on `"start current"`; `op.supply` ≤ 0 →
+    /// [`Reason::NotPositive`] on `"supply voltage"`; a clamp-part temperature outside
+    /// −100…250 °C → [`Reason::OutsideValidatedRange`] on `"diode temperature"` or
+    /// `"breakdown temperature"`; a clamp across the switch (TVS, avalanche) whose breakdown
+    /// voltage at its knee is at or below the supply → [`Reason::CannotClamp`] on
+    /// `"breakdown voltage"` (an active clamp: on `"active clamp voltage"`); a fixed diode
+    /// drop ≤ 0 or above 10 V → on `"diode drop"`; an active clamp's fields outside their
+    /// ranges → [`Reason::OutsideValidatedRange`] naming them; errors of [`Coil::resistance`].
     ///
     /// ```
-    /// use kickguard::clamp::{Clamp, SwitchOff};
-    /// use kickguard::{coil::Coil, diode::DiodeParams, Amps, Henries, Ohms, Temperature, Volts};
-    /// let t = Temperature::from_celsius(20.0).unwrap();
-    /// let relay = Coil::copper(Henries::new(0.9).unwrap(), Ohms::new(160.0).unwrap(), t).unwrap();
-    /// let off = SwitchOff::new(&relay, &Clamp::FreewheelDiode(DiodeParams::SILICON),
-    ///                          Volts::new(12.0).unwrap(), Amps::new(0.075).unwrap(), t, t).unwrap();
-    /// let d = off.decay_to(Amps::new(0.0075).unwrap()).unwrap();
-    /// // Slower than τ·ln(10) = 12.95 ms? No: the diode's drop speeds it up a little.
+    /// use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
+    /// use kickguard::{coil::Coil, diode::{Diode, DiodeParams}, Amps, Henries, Ohms, Temperature, Volts};
+    /// let t = Temperature::from_celsius(20.0)?;
+    /// let relay = Coil::copper(Henries::new(0.9)?, Ohms::new(160.0)?, t)?;
+    /// let op = Operating::uniform(Volts::new(12.0)?, Amps::new(0.075)?, t);
+    /// let off = SwitchOff::new(&relay, &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+    ///                          Side::Low, &op)?;
+    /// let d = off.decay_to(Amps::new(0.0075)?)?;
+    /// // Faster than τ·ln(10) = 12.95 ms: the diode's drop speeds it up a little.
     /// assert!(d.time.value() < 0.01295 && d.time.value() > 0.009);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
-    pub fn new(
-        coil: &Coil,
-        clamp: &Clamp,
-        v_supply: Volts,
-        i_start: Amps,
-        t_coil: Temperature,
-        t_clamp: Temperature,
-    ) -> Result<Self, Error> {
-        let (i0, vs) = start_and_supply(i_start, v_supply)?;
-        let r_coil = coil.resistance(t_coil)?.value();
-        let tc = checked_t("clamp temperature", t_clamp)?;
-        let diode_at = |d: &DiodeParams| DiodeAt {
-            a: d.n() * vt_at(tc),
-            ln_is: d.ln_is_at(tc),
-            rs: d.rs().value(),
-        };
-        let no_diode = DiodeAt {
-            a: 0.0,
-            ln_is: 0.0,
-            rs: 0.0,
-        };
-        let no_bd = BreakdownAt {
-            v0: 0.0,
-            r: 0.0,
-            a: 0.0,
-            ln_ib: 0.0,
-        };
-        let mut law = LoopLaw {
-            l: coil.inductance().value(),
-            r_coil,
-            r_ext: 0.0,
-            diode: no_diode,
-            n_diodes: 0.0,
-            bd: no_bd,
-            has_bd: false,
-            vs_term: 0.0,
-        };
-        let kind = match clamp {
-            Clamp::FreewheelDiode(d) => {
-                law.diode = diode_at(d);
-                law.n_diodes = 1.0;
-                Kind::AcrossCoil
-            }
-            Clamp::ResistorDiode { resistor, diode } => {
-                law.diode = diode_at(diode);
-                law.n_diodes = 1.0;
-                law.r_ext = resistor.value();
-                Kind::AcrossCoil
-            }
-            Clamp::ZenerDiode { zener, diode } => {
-                law.diode = diode_at(diode);
-                law.n_diodes = 1.0;
-                law.bd = zener
-                    .at_checked(t_clamp)
-                    .map_err(|e| Error::new("clamp temperature", e.reason))?;
-                law.has_bd = true;
-                Kind::AcrossCoil
-            }
-            Clamp::SwitchZener(b) | Clamp::Avalanche(b) => {
-                law.bd = b
-                    .at_checked(t_clamp)
-                    .map_err(|e| Error::new("clamp temperature", e.reason))?;
-                law.has_bd = true;
-                law.vs_term = -vs;
-                if !(law.bd.v0 > vs) {
-                    return Err(Error::new("breakdown voltage", Reason::CannotClamp));
-                }
-                if matches!(clamp, Clamp::Avalanche(_)) {
-                    Kind::Avalanche
-                } else {
-                    Kind::SwitchSide
-                }
-            }
-            Clamp::HBridgeFastDecay(d) => {
-                law.diode = diode_at(d);
-                law.n_diodes = 2.0;
-                law.vs_term = vs;
-                Kind::HBridge
-            }
-        };
+    pub fn new(coil: &Coil, clamp: &Clamp, side: Side, op: &Operating) -> Result<Self, Error> {
+        let built = topology::build(coil, clamp, op)?;
         Ok(SwitchOff {
-            law,
-            kind,
-            i0,
-            v_supply: vs,
+            law: built.law,
+            placement: built.placement,
+            absorber: built.absorber,
+            side,
+            i0: op.start_current.value(),
+            v_supply: op.supply.value(),
         })
     }
 
@@ -271,54 +179,150 @@ impl SwitchOff {
         Amps::raw(self.i0)
     }
 
-    /// True when this decay has a closed form (no diode law in the path, affine breakdown).
+    /// The supply voltage.
+    pub fn supply(&self) -> Volts {
+        Volts::raw(self.v_supply)
+    }
+
+    /// The switch's side.
+    pub fn side(&self) -> Side {
+        self.side
+    }
+
+    /// True when this decay has a closed form (no diode law, breakdown logarithm or power law
+    /// in the path).
     pub fn is_closed_form(&self) -> bool {
         self.law.is_affine()
     }
 
-    /// Switch voltage (output terminal to ground) while the coil carries `i` during the decay.
+    /// True when the current reaches exactly zero in finite time (a clamp with a constant
+    /// voltage part, a varistor, SPICE's breakdown law); false when it only tends to zero (a
+    /// plain diode path) or settles at a steady current.
+    pub fn reaches_zero(&self) -> bool {
+        self.law.reaches_zero()
+    }
+
+    /// The steady current the loop settles at instead of zero (SPICE's breakdown law on a
+    /// clamp across the switch, whose breakdown tail keeps conducting at the supply voltage:
+    /// I = IBV·exp(−(BV − V_s)/(NBV·Vt)) less the loop's resistive share). Zero when there is
+    /// none above 1e-21 of the start current.
+    pub fn steady_current(&self) -> Amps {
+        Amps::raw(self.law.floor)
+    }
+
+    /// Where [`SwitchOff::decay_to_end`] ends, stated: zero where the loop reaches zero; else
+    /// [`END_FRACTION`] (1e-6) of the start current, where the remaining stored energy is 1e-12
+    /// of the start; `None` when the loop settles at a steady current above half of that
+    /// (the current never becomes negligible: see [`SwitchOff::steady_current`]).
+    pub fn end_current(&self) -> Option<Amps> {
+        if self.law.reaches_zero() {
+            return Some(Amps::raw(0.0));
+        }
+        let end = self.i0 * END_FRACTION;
+        (self.law.floor < 0.5 * end).then_some(Amps::raw(end))
+    }
+
+    /// Voltage across the switch while the coil carries `i` during the decay (internal).
     fn switch_voltage_raw(&self, i: f32) -> f32 {
-        match self.kind {
-            Kind::AcrossCoil => self.v_supply + self.law.v_clamp(i),
-            Kind::SwitchSide | Kind::Avalanche => self.law.bd.eval(i),
-            Kind::HBridge => self.v_supply + self.law.diode.drop(i),
+        match self.placement {
+            Placement::AcrossCoil => self.v_supply + self.law.v_clamp(i),
+            Placement::AcrossSwitch => self.law.v_clamp(i),
+            Placement::HBridge => self.v_supply + self.law.diode.drop(i),
         }
     }
 
-    /// Switch voltage while the coil carries `i` (0 < i ≤ start current) during the decay.
-    ///
-    /// # Errors
-    /// `i` ≤ 0 or above the start current → [`Reason::OutsideValidatedRange`] on `"current"`.
-    pub fn switch_voltage_at(&self, i: Amps) -> Result<Volts, Error> {
+    /// The switched node's voltage to ground while the coil carries `i` (internal).
+    fn output_voltage_raw(&self, i: f32) -> f32 {
+        let v_sw = self.switch_voltage_raw(i);
+        match (self.placement, self.side) {
+            (Placement::HBridge, _) | (_, Side::Low) => v_sw,
+            (_, Side::High) => self.v_supply - v_sw,
+        }
+    }
+
+    fn check_current(&self, i: Amps) -> Result<f32, Error> {
         let ia = i.value();
         if !(ia > 0.0 && ia <= self.i0) {
             return Err(Error::new("current", Reason::OutsideValidatedRange));
         }
-        Volts::new(self.switch_voltage_raw(ia))
+        Ok(ia)
     }
 
-    /// How long the switch voltage stays above `threshold` after switch-off (what a comparator
-    /// on a divider from the switch node measures).
+    /// Voltage across the switch while the coil carries `i` (0 < i ≤ start current).
+    ///
+    /// # Errors
+    /// `i` ≤ 0 or above the start current → [`Reason::OutsideValidatedRange`] on `"current"`.
+    pub fn switch_voltage_at(&self, i: Amps) -> Result<Volts, Error> {
+        Volts::new(self.switch_voltage_raw(self.check_current(i)?))
+    }
+
+    /// The switched node's voltage to ground while the coil carries `i` (0 < i ≤ start
+    /// current): the drain of a low-side switch (equal to the switch voltage), the output of a
+    /// high-side one (V_s − V_switch, below ground).
+    ///
+    /// # Errors
+    /// As [`SwitchOff::switch_voltage_at`].
+    pub fn output_voltage_at(&self, i: Amps) -> Result<Volts, Error> {
+        Volts::new(self.output_voltage_raw(self.check_current(i)?))
+    }
+
+    /// Peak voltage across the switch: at the instant of switch-off, since every clamp voltage
+    /// rises with current (see [`path`]). Exact for the model.
+    ///
+    /// ```
+    /// use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
+    /// use kickguard::breakdown::Breakdown;
+    /// use kickguard::{coil::Coil, Amps, Henries, Ohms, Temperature, Volts};
+    /// let t = Temperature::from_celsius(25.0)?;
+    /// let c = Coil::copper(Henries::new(0.35)?, Ohms::new(56.0)?, t)?;
+    /// let tvs = Clamp::AcrossSwitch(Breakdown::ideal(Volts::new(40.0)?)?);
+    /// let op = Operating::uniform(Volts::new(24.0)?, Amps::new(0.4)?, t);
+    /// let off = SwitchOff::new(&c, &tvs, Side::Low, &op)?;
+    /// assert_eq!(off.peak_switch_voltage().value(), 40.0);
+    /// // The same clamp on a high-side switch takes its output 16 V below ground.
+    /// let high = SwitchOff::new(&c, &tvs, Side::High, &op)?;
+    /// assert_eq!(high.peak_output_voltage().value(), -16.0);
+    /// # Ok::<(), kickguard::Error>(())
+    /// ```
+    pub fn peak_switch_voltage(&self) -> Volts {
+        Volts::raw(self.switch_voltage_raw(self.i0))
+    }
+
+    /// The output's extreme voltage to ground, at switch-off (see
+    /// [`SwitchOff::output_voltage_at`]).
+    pub fn peak_output_voltage(&self) -> Volts {
+        Volts::raw(self.output_voltage_raw(self.i0))
+    }
+
+    /// Clamp voltage across the coil terminals at the instant of switch-off (what opposes the
+    /// coil's current, less the winding's own resistive drop).
+    pub fn clamp_voltage_at_start(&self) -> Volts {
+        Volts::raw(self.law.g(self.i0) - self.law.r_coil * self.i0)
+    }
+
+    /// How long the voltage across the switch stays above `threshold` after switch-off (what
+    /// a comparator on a divider across the switch measures; for a low-side switch, from the
+    /// drain to ground; for a high-side one, the output below V_s − threshold).
     ///
     /// Every clamp voltage rises with current, so the switch voltage falls monotonically during
-    /// the decay; the crossing current solves v_sw(i) = threshold (bracketed Illinois, ≤ 60 steps,
-    /// 1e-6 relative), then the time is [`SwitchOff::time_to`] that current. A threshold at or
-    /// below the voltage the clamp holds as the current vanishes means "until the current is
-    /// gone": the time to zero, finite only for clamps with a constant voltage part.
+    /// the decay; the crossing current solves v_sw(i) = threshold (bracketed Illinois, ≤ 60
+    /// steps, 1e-6 relative in ln i), then the time is [`SwitchOff::time_to`] that current. A
+    /// threshold at or below the level the clamp holds as the current vanishes means "until
+    /// the current is gone": the time to zero, for a decay that reaches zero.
     ///
     /// # Errors
     /// `threshold` at or above the peak → [`Reason::Unreachable`] on `"threshold"` (the
-    /// comparator never trips); at or below the zero-current level on a path that only tends to
-    /// zero (a plain diode: put the threshold above the supply) → [`Reason::Unreachable`] on
-    /// `"threshold"`.
+    /// comparator never trips); at or below the zero-current level on a path that does not
+    /// reach zero (a plain diode: put the threshold above the supply) →
+    /// [`Reason::Unreachable`] on `"threshold"`.
     pub fn time_above(&self, threshold: Volts) -> Result<Seconds, Error> {
         let th = threshold.value();
         if !(th < self.switch_voltage_raw(self.i0)) {
             return Err(Error::new("threshold", Reason::Unreachable));
         }
-        let floor = self.switch_voltage_raw(self.i0 * 1e-9);
-        if th <= floor {
-            return if self.law.v_const() > 0.0 {
+        let low = self.law.floor + (self.i0 - self.law.floor) * 1e-9;
+        if th <= self.switch_voltage_raw(low) {
+            return if self.law.reaches_zero() {
                 self.time_to(Amps::raw(0.0))
             } else {
                 Err(Error::new("threshold", Reason::Unreachable))
@@ -326,35 +330,14 @@ impl SwitchOff {
         }
         // Solve in ln i: the switch voltage is smooth in it over many decades.
         let f = |u: f32| self.switch_voltage_raw(math::exp(u)) - th;
-        let u = crate::solve::illinois(f, math::ln(self.i0 * 1e-9), math::ln(self.i0), 1e-6, 60)
+        let u = crate::solve::illinois(f, math::ln(low), math::ln(self.i0), 1e-6, 60)
             .ok_or(Error::new("threshold", Reason::Unreachable))?;
-        let i = math::exp(u).min(self.i0 * (1.0 - 1e-6));
+        let i = math::exp(u).clamp(low, self.i0 * (1.0 - 1e-6));
         self.time_to(Amps::new(i)?)
     }
 
-    /// Peak voltage on the switch: at the instant of switch-off, since every clamp voltage rises
-    /// with current (see the module table). Exact for the model.
-    ///
-    /// ```
-    /// use kickguard::clamp::{Clamp, SwitchOff};
-    /// use kickguard::breakdown::Breakdown;
-    /// use kickguard::{coil::Coil, Amps, Henries, Ohms, Temperature, Volts};
-    /// let t = Temperature::from_celsius(25.0).unwrap();
-    /// let c = Coil::copper(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap(), t).unwrap();
-    /// let tvs = Clamp::SwitchZener(Breakdown::ideal(Volts::new(40.0).unwrap()).unwrap());
-    /// let off = SwitchOff::new(&c, &tvs, Volts::new(24.0).unwrap(), Amps::new(0.4).unwrap(), t, t).unwrap();
-    /// assert_eq!(off.peak_switch_voltage().value(), 40.0);
-    /// ```
-    pub fn peak_switch_voltage(&self) -> Volts {
-        Volts::raw(self.switch_voltage_raw(self.i0))
-    }
-
-    /// Clamp voltage across the coil terminals at the instant of switch-off (what opposes the
-    /// coil's current, less the winding's own resistive drop).
-    pub fn clamp_voltage_at_start(&self) -> Volts {
-        Volts::raw(self.law.v_clamp(self.i0))
-    }
-
+    /// Checks an end current: 0 ≤ i < start, above the steady current, zero only where the
+    /// loop reaches zero, and within the integration's span.
     fn check_end(&self, i_end: Amps) -> Result<f32, Error> {
         let i1 = i_end.value();
         if i1 < 0.0 {
@@ -363,15 +346,15 @@ impl SwitchOff {
         if !(i1 < self.i0) {
             return Err(Error::new("end current", Reason::Unreachable));
         }
-        if i1 == 0.0 && !(self.law.v_const() > 0.0) {
-            // A diode-law path's current only tends to zero: name a small end current instead.
+        if i1 == 0.0 && !self.law.reaches_zero() {
+            // A diode-law path only tends to zero: use `decay_to_end` or a small end current.
             return Err(Error::new("end current", Reason::Unreachable));
         }
-        if !self.law.is_affine() {
-            let lower = if i1 > 0.0 { i1 } else { self.i0 * 1e-6 };
-            if LoopLaw::panels(math::ln(self.i0), math::ln(lower)) > MAX_PANELS {
-                return Err(Error::new("end current", Reason::OutsideValidatedRange));
-            }
+        if i1 > 0.0 && !(i1 > self.law.floor) {
+            return Err(Error::new("end current", Reason::Unreachable));
+        }
+        if !(self.law.span(self.i0, i1) <= MAX_SPAN) {
+            return Err(Error::new("end current", Reason::OutsideValidatedRange));
         }
         Ok(i1)
     }
@@ -380,14 +363,15 @@ impl SwitchOff {
     ///
     /// Closed form for affine paths ([`closed_form`]); Gauss–Legendre quadrature in ln i
     /// otherwise ([`path`]). Accuracy: within 0.05 % of the exact solution of the model for τ
-    /// from 10 µs to 1 s and start currents from 1 mA to 20 A (measured against f64 references in
-    /// `tests/clamp_reference.rs`; figures printed by `cargo bench --bench clamp_accuracy`).
+    /// from 10 µs to 1 s and start currents from 1 mA to 20 A (measured against f64 references
+    /// and an independent transient simulation in `tests/clamp_reference.rs`; figures printed
+    /// by `cargo bench --bench clamp_accuracy`). Work: at most 49 panels of 4 nodes.
     ///
     /// # Errors
-    /// `i_end` < 0 → [`Reason::Negative`]; `i_end` ≥ the start current, or `i_end` = 0 on a path
-    /// that only tends to zero (any path without a positive constant clamp voltage) →
-    /// [`Reason::Unreachable`]; a ratio of start to end current above e⁴⁸ ≈ 7e20 →
-    /// [`Reason::OutsideValidatedRange`]; all on `"end current"`.
+    /// `i_end` < 0 → [`Reason::Negative`]; `i_end` ≥ the start current, at or below the
+    /// steady current, or 0 on a path that does not reach zero → [`Reason::Unreachable`]; a
+    /// ratio of start to end current above e⁴⁸ ≈ 7e20 → [`Reason::OutsideValidatedRange`]; all
+    /// on `"end current"`.
     pub fn time_to(&self, i_end: Amps) -> Result<Seconds, Error> {
         let i1 = self.check_end(i_end)?;
         Seconds::new(self.law.integrate(self.i0, i1).t)
@@ -402,139 +386,127 @@ impl SwitchOff {
     /// As [`SwitchOff::time_to`].
     pub fn decay_to(&self, i_end: Amps) -> Result<Decay, Error> {
         let i1 = self.check_end(i_end)?;
-        let Integrals {
-            t,
-            q,
-            i2,
-            d_log,
-            z_log,
-        } = self.law.integrate(self.i0, i1);
-        let law = &self.law;
-        let e_bd = if law.has_bd {
-            law.bd.v0 * q + law.bd.r * i2 + law.bd.a * z_log
-        } else {
-            0.0
-        };
-        let (zener, switch) = match self.kind {
-            Kind::Avalanche => (0.0, e_bd),
-            _ => (e_bd, 0.0),
-        };
-        let energy = EnergySplit {
-            released_by_coil: Joules::new(0.5 * law.l * (self.i0 * self.i0 - i1 * i1))?,
-            // −Vs_term·Q: +Vs·Q for switch-side clamps, −Vs·Q returned by an H-bridge, none else.
-            from_supply: Joules::new(if law.vs_term == 0.0 {
-                0.0
-            } else {
-                -law.vs_term * q
-            })?,
-            coil_resistance: Joules::new(law.r_coil * i2)?,
-            resistor: Joules::new(law.r_ext * i2)?,
-            diodes: Joules::new(law.n_diodes * (law.diode.a * d_log + law.diode.rs * i2))?,
-            zener: Joules::new(zener)?,
-            switch: Joules::new(switch)?,
-        };
-        Ok(Decay {
-            time: Seconds::new(t)?,
-            charge: Coulombs::new(q)?,
-            energy,
-        })
+        self.decay_of(&self.law.integrate(self.i0, i1), i1)
     }
 
-    /// Samples i(t) and the switch voltage every `dt` from switch-off into `out`, until the
-    /// current falls to `i_end` or `out` is full; returns the number of samples written. No
-    /// allocation: the caller owns the buffer.
-    ///
-    /// Affine paths use the exact i(t); diode-law paths march in ln i with 4-point
-    /// Gauss–Legendre steps of 0.02 and interpolate, which places each sample's current within
-    /// about 0.01 % of the exact solution (enough for plots; use [`SwitchOff::time_to`] for
-    /// figures). When the current reaches `i_end` between two sample times, a last sample is
-    /// written at that instant.
+    /// The whole decay to its end, with no end current to invent: to zero where the loop
+    /// reaches zero, else to 1e-6 of the start current (see [`SwitchOff::end_current`]).
     ///
     /// # Errors
-    /// `dt` = 0 → [`Reason::NotPositive`] on `"sample interval"`; `i_end` as
+    /// A loop that settles at a steady current too large to call the decay ended →
+    /// [`Reason::Unreachable`] on `"end current"`.
+    ///
+    /// ```
+    /// use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
+    /// use kickguard::breakdown::Breakdown;
+    /// use kickguard::{coil::Coil, Amps, Henries, Ohms, Temperature, Volts};
+    /// let t = Temperature::from_celsius(25.0)?;
+    /// let c = Coil::fixed(Henries::new(0.35)?, Ohms::new(56.0)?)?;
+    /// let op = Operating::uniform(Volts::new(24.0)?, Amps::new(0.4)?, t);
+    /// let av = SwitchOff::new(&c, &Clamp::Avalanche(Breakdown::ideal(Volts::new(66.0)?)?), Side::Low, &op)?;
+    /// let d = av.decay_to_end()?;
+    /// assert_eq!(d.end_current.value(), 0.0);
+    /// // Time to zero: τ·ln(1 + I₀R/(V_BR − V_s)), the textbook constant-clamp decay.
+    /// let tau = 0.35f32 / 56.0;
+    /// assert!((d.time.value() - tau * (1.0 + 0.4 * 56.0 / 42.0f32).ln()).abs() < 1e-7);
+    /// # Ok::<(), kickguard::Error>(())
+    /// ```
+    pub fn decay_to_end(&self) -> Result<Decay, Error> {
+        let end = self
+            .end_current()
+            .ok_or(Error::new("end current", Reason::Unreachable))?;
+        self.decay_to(end)
+    }
+
+    /// One integration for a whole decay: the times to each of `currents` (strictly
+    /// decreasing, each below the start current and above the steady current; zero allowed as
+    /// the last where the loop reaches zero), and the charge, every device's energy and the
+    /// peak voltages of the decay down to the last of them.
+    ///
+    /// Work: one pass over the current range, at most 49 + N panels of 4 nodes.
+    ///
+    /// # Errors
+    /// N = 0 → [`Reason::TooFew`] on `"profile currents"`; currents not strictly decreasing →
+    /// [`Reason::NotDecreasing`] on `"profile currents"`; each current as in
     /// [`SwitchOff::time_to`].
     ///
     /// ```
-    /// use kickguard::clamp::{Clamp, Sample, SwitchOff};
-    /// use kickguard::{coil::Coil, diode::DiodeParams, Amps, Henries, Ohms, Seconds, Temperature, Volts};
-    /// let t = Temperature::from_celsius(20.0).unwrap();
-    /// let relay = Coil::copper(Henries::new(0.9).unwrap(), Ohms::new(160.0).unwrap(), t).unwrap();
-    /// let off = SwitchOff::new(&relay, &Clamp::FreewheelDiode(DiodeParams::SILICON),
-    ///                          Volts::new(12.0).unwrap(), Amps::new(0.075).unwrap(), t, t).unwrap();
-    /// let mut buf = [Sample::default(); 64];
-    /// let n = off.sample(Seconds::new(1e-3).unwrap(), Amps::new(1e-3).unwrap(), &mut buf).unwrap();
-    /// assert!(n > 12 && n < 20); // about 15 ms to reach 1 mA, one sample per ms
-    /// assert!(buf[1].current < buf[0].current);
+    /// use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
+    /// use kickguard::{coil::Coil, diode::{Diode, DiodeParams}, Amps, Henries, Ohms, Temperature, Volts};
+    /// let t = Temperature::from_celsius(25.0)?;
+    /// let c = Coil::copper(Henries::new(0.9)?, Ohms::new(160.0)?, t)?;
+    /// let op = Operating::uniform(Volts::new(12.0)?, Amps::new(0.075)?, t);
+    /// let off = SwitchOff::new(&c, &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)), Side::Low, &op)?;
+    /// let i0 = 0.075;
+    /// let p = off.profile(&[Amps::new(0.5 * i0)?, Amps::new(0.1 * i0)?, Amps::new(0.01 * i0)?])?;
+    /// assert!(p.times[0] < p.times[1] && p.times[1] < p.times[2]);
+    /// assert_eq!(p.times[2], p.decay.time);
+    /// assert_eq!(p.times[1], off.time_to(Amps::new(0.1 * i0)?)?);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
-    pub fn sample(&self, dt: Seconds, i_end: Amps, out: &mut [Sample]) -> Result<usize, Error> {
-        let dt_s = dt.value();
-        if !(dt_s > 0.0) {
-            return Err(Error::new("sample interval", Reason::NotPositive));
+    pub fn profile<const N: usize>(&self, currents: &[Amps; N]) -> Result<DecayProfile<N>, Error> {
+        if N == 0 {
+            return Err(Error::new("profile currents", Reason::TooFew));
         }
-        let i1 = self.check_end(i_end)?;
-        let mut n = 0usize;
-        let mut push = |t: f32, i: f32, out: &mut [Sample]| -> bool {
-            match out.get_mut(n) {
-                Some(slot) => {
-                    *slot = Sample {
-                        time: Seconds::raw(t),
-                        current: Amps::raw(i),
-                        switch_voltage: Volts::raw(self.switch_voltage_raw(i)),
-                    };
-                    n += 1;
-                    true
-                }
-                None => false,
+        let mut times = [Seconds::raw(0.0); N];
+        let mut acc = Integrals::default();
+        let mut prev = self.i0;
+        for (slot, c) in times.iter_mut().zip(currents.iter()) {
+            let i = self.check_end(*c)?;
+            if !(i < prev) {
+                return Err(Error::new("profile currents", Reason::NotDecreasing));
             }
-        };
-        if !push(0.0, self.i0, out) {
-            return Ok(n);
+            acc += self.law.integrate(prev, i);
+            *slot = Seconds::new(acc.t)?;
+            prev = i;
         }
+        Ok(DecayProfile {
+            times,
+            decay: self.decay_of(&acc, prev)?,
+            peak_switch_voltage: self.peak_switch_voltage(),
+            peak_output_voltage: self.peak_output_voltage(),
+        })
+    }
+
+    /// The decay figures from the integrals down to `i1`.
+    fn decay_of(&self, it: &Integrals, i1: f32) -> Result<Decay, Error> {
+        Ok(Decay {
+            time: Seconds::new(it.t)?,
+            end_current: Amps::new(i1)?,
+            charge: Coulombs::new(it.q)?,
+            energy: self.energy(it, i1)?,
+        })
+    }
+
+    /// Where the energy of the integrals went (see [`EnergySplit`]).
+    fn energy(&self, it: &Integrals, i1: f32) -> Result<EnergySplit, Error> {
         let law = &self.law;
-        if law.is_affine() {
-            let t_end = law.integrate(self.i0, i1).t;
-            let (vc, r) = (law.v_const(), law.r_total());
-            let mut k = 1u32;
-            loop {
-                let t = k as f32 * dt_s;
-                if t >= t_end {
-                    push(t_end, i1, out);
-                    break;
-                }
-                if !push(t, closed_form::current_at(law.l, vc, r, self.i0, t), out) {
-                    break;
-                }
-                k += 1;
-            }
-            return Ok(n);
-        }
-        // March u = ln i downward in steps of at most STEP; t(u) from 4-point Gauss–Legendre.
-        const STEP: f32 = 0.02;
-        let u_end = math::ln(i1);
-        let u_start = math::ln(self.i0);
-        let steps = libm::ceilf((u_start - u_end) / STEP).max(1.0) as u32;
-        let h = (u_start - u_end) / steps as f32;
-        let (mut u_prev, mut t_prev) = (u_start, 0.0f32);
-        let mut k = 1u32;
-        for s in 1..=steps {
-            let u = u_start - s as f32 * h;
-            let dt_seg = law.integrate(math::exp(u_prev), math::exp(u)).t;
-            let t_now = t_prev + dt_seg;
-            while (k as f32) * dt_s <= t_now {
-                let tk = k as f32 * dt_s;
-                let frac = (tk - t_prev) / dt_seg;
-                let uk = u_prev + (u - u_prev) * frac;
-                if !push(tk, math::exp(uk), out) {
-                    return Ok(n);
-                }
-                k += 1;
-            }
-            u_prev = u;
-            t_prev = t_now;
-        }
-        if (k as f32 - 1.0) * dt_s < t_prev {
-            push(t_prev, i1, out);
-        }
-        Ok(n)
+        let j = |x: f32| Joules::new(x).map_err(|e| e.on("energy"));
+        // The breakdown or power-law device: V₀·Q + r·∫i² + a·∫L·i + ∫p·(i/I_p)^β·i.
+        let device = law.bd.v0 * it.q + law.bd.r * it.i2 + law.bd.a * it.z_log + it.pw;
+        let (zener, varistor, switch) = match self.absorber {
+            Absorber::Zener => (device, 0.0, 0.0),
+            Absorber::Varistor => (0.0, device, 0.0),
+            Absorber::Switch => (0.0, 0.0, device),
+        };
+        let diodes =
+            law.n_diodes * (law.diode.a * it.d_log + law.diode.rs * it.i2 + law.diode.vf * it.q);
+        let resistor = law.r_ext * it.i2;
+        Ok(EnergySplit {
+            released_by_coil: j(0.5 * law.l * (self.i0 * self.i0 - i1 * i1))?,
+            // −Vs_term·Q: +Vs·Q for clamps across the switch, −Vs·Q returned by an H-bridge.
+            from_supply: j(if law.vs_term == 0.0 {
+                0.0
+            } else {
+                -law.vs_term * it.q
+            })?,
+            coil_resistance: j(law.r_coil * it.i2)?,
+            resistor: j(resistor)?,
+            diodes: j(diodes)?,
+            zener: j(zener)?,
+            varistor: j(varistor)?,
+            switch: j(switch)?,
+            clamp_total: j(resistor + diodes + zener + varistor)?,
+        })
     }
 }

@@ -14,22 +14,23 @@
 //! required time is the root of t(Vz) = t_required, found by bracketed Illinois iteration between
 //! the smallest valid Vz and Vz_max (at most 60 steps, tolerance 1 mV).
 
-use super::{Clamp, SwitchOff};
+use super::{Clamp, Operating, Side, SwitchOff};
 use crate::breakdown::{Breakdown, BreakdownLaw};
 use crate::coil::Coil;
-use crate::diode::DiodeParams;
-use crate::error::{self, Error, Reason};
+use crate::diode::Diode;
+use crate::error::{Error, Reason};
 use crate::solve::illinois;
-use crate::units::{Amps, Ohms, Seconds, Temperature, Volts};
+use crate::units::{Amps, Duty, Ohms, PerKelvin, Seconds, Temperature, Volts};
 
 /// What a zener + diode clamp across a coil must achieve, and the parts it is built from.
+/// Fields are public for readable literals; [`ZenerSizing::window`] validates them.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct ZenerSizing {
     /// The coil.
     pub coil: Coil,
     /// The blocking diode in series with the zener.
-    pub diode: DiodeParams,
+    pub diode: Diode,
     /// Zener dynamic resistance r_z of the family considered.
     pub zener_rz: Ohms,
     /// Zener test current I_zt at which Vz is specified.
@@ -44,8 +45,8 @@ pub struct ZenerSizing {
     pub t_clamp: Temperature,
     /// The switch's voltage rating (for example V(BR)DSS).
     pub switch_rating: Volts,
-    /// Fraction of the rating the peak may reach (for example 0.8), in (0, 1].
-    pub rating_fraction: f32,
+    /// Fraction of the rating the peak may reach (for example 0.8), above 0.
+    pub rating_fraction: Duty,
     /// Current below which the relay or valve has released.
     pub release_current: Amps,
     /// Longest acceptable time from switch-off to the release current.
@@ -69,50 +70,53 @@ impl ZenerSizing {
             izt: self.zener_izt,
             rz: self.zener_rz,
         };
-        let zener = Breakdown::new(law, 0.0, self.t_clamp)?;
+        let zener = Breakdown::new(law, PerKelvin::ZERO, self.t_clamp)?;
         let clamp = Clamp::ZenerDiode {
             zener,
             diode: self.diode,
         };
-        let off = SwitchOff::new(
-            &self.coil,
-            &clamp,
-            self.v_supply,
-            self.i_start,
-            self.t_coil,
-            self.t_clamp,
-        )?;
+        let op = Operating {
+            supply: self.v_supply,
+            start_current: self.i_start,
+            winding: self.t_coil,
+            diodes: self.t_clamp,
+            breakdown: self.t_clamp,
+        };
+        let off = SwitchOff::new(&self.coil, &clamp, Side::Low, &op)?;
         Ok(off.time_to(self.release_current)?.value())
     }
 
     /// The window of zener voltages meeting both requirements.
     ///
+    /// Work: at most 62 switch-off integrations (the bracketed solve's 60 steps and its two
+    /// ends).
+    ///
     /// # Errors
-    /// `rating_fraction` outside (0, 1] → [`Reason::OutsideValidatedRange`] on
-    /// `"rating fraction"`; no zener fits under the derated rating → [`Reason::Inconsistent`] on
+    /// `rating_fraction` of 0 → [`Reason::OutsideValidatedRange`] on `"rating fraction"`; no zener fits under the derated rating → [`Reason::Inconsistent`] on
     /// `"switch rating"`; even the largest allowed zener is too slow → [`Reason::Inconsistent`]
     /// on `"max release time"` (the requirements conflict); errors of [`SwitchOff::new`] and
     /// [`SwitchOff::time_to`].
     ///
     /// ```
     /// use kickguard::clamp::sizing::ZenerSizing;
-    /// use kickguard::{coil::Coil, diode::DiodeParams, Amps, Henries, Ohms, Seconds, Temperature, Volts};
-    /// let t = Temperature::from_celsius(20.0).unwrap();
+    /// use kickguard::{coil::Coil, diode::{Diode, DiodeParams}, Amps, Duty, Henries, Ohms, Seconds, Temperature, Volts};
+    /// let t = Temperature::from_celsius(20.0)?;
     /// let s = ZenerSizing {
-    ///     coil: Coil::copper(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap(), t).unwrap(),
-    ///     diode: DiodeParams::SILICON,
-    ///     zener_rz: Ohms::new(10.0).unwrap(), zener_izt: Amps::new(0.01).unwrap(),
-    ///     v_supply: Volts::new(26.4).unwrap(), i_start: Amps::new(0.47).unwrap(),
+    ///     coil: Coil::copper(Henries::new(0.35)?, Ohms::new(56.0)?, t)?,
+    ///     diode: Diode::Law(DiodeParams::SILICON),
+    ///     zener_rz: Ohms::new(10.0)?, zener_izt: Amps::new(0.01)?,
+    ///     v_supply: Volts::new(26.4)?, i_start: Amps::new(0.47)?,
     ///     t_coil: t, t_clamp: t,
-    ///     switch_rating: Volts::new(60.0).unwrap(), rating_fraction: 0.8,
-    ///     release_current: Amps::new(0.05).unwrap(), max_release_time: Seconds::new(5e-3).unwrap(),
+    ///     switch_rating: Volts::new(60.0)?, rating_fraction: Duty::new(0.8)?,
+    ///     release_current: Amps::new(0.05)?, max_release_time: Seconds::new(5e-3)?,
     /// };
-    /// let w = s.window().unwrap();
+    /// let w = s.window()?;
     /// assert!(w.min < w.max && w.max.value() < 48.0 - 26.4);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn window(&self) -> Result<ZenerWindow, Error> {
-        let k = error::finite("rating fraction", self.rating_fraction)?;
-        if !(k > 0.0 && k <= 1.0) {
+        let k = self.rating_fraction.value();
+        if !(k > 0.0) {
             return Err(Error::new("rating fraction", Reason::OutsideValidatedRange));
         }
         let i0 = self.i_start.value();

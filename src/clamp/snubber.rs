@@ -146,9 +146,15 @@ impl SnubberSwitchOff {
     /// Sets up the switch-off of `coil` (winding at `t_coil`) carrying `i_start`, from supply
     /// `v_supply`, into `snubber`.
     ///
+    /// The damping and the mode coefficients are computed once in f64 and must fit f32: an LC
+    /// combination whose natural frequency, decay rates or coefficients would overflow is
+    /// refused here rather than giving NaN later. Work: constant.
+    ///
     /// # Errors
     /// `i_start` ≤ 0 → [`Reason::NotPositive`] on `"start current"`; `v_supply` ≤ 0 →
-    /// [`Reason::NotPositive`] on `"supply voltage"`; errors of [`Coil::resistance`].
+    /// [`Reason::NotPositive`] on `"supply voltage"`; a snubber whose response cannot be
+    /// represented (ω₀, α, the roots or the coefficients outside f32) →
+    /// [`Reason::OutsideValidatedRange`] on `"snubber"`; errors of [`Coil::resistance`].
     pub fn new(
         coil: &Coil,
         snubber: &RcSnubber,
@@ -161,31 +167,30 @@ impl SnubberSwitchOff {
         let l = coil.inductance().value();
         let r_s = snubber.resistor.value();
         let c = snubber.capacitor.value();
-        let alpha = (r_c + r_s) / (2.0 * l);
-        let w0 = 1.0 / math::sqrt(l * c);
+        let refuse = || Error::new("snubber", Reason::OutsideValidatedRange);
+        let (l64, c64) = (l as f64, c as f64);
+        let alpha = (r_c as f64 + r_s as f64) / (2.0 * l64);
+        let w0 = 1.0 / libm::sqrt(l64 * c64);
         let zeta = alpha / w0;
-        if !(zeta.is_finite() && w0.is_finite()) {
-            return Err(Error::new("capacitance", Reason::OutsideValidatedRange));
-        }
         // Within 1e-4 of critical damping, the critical form is used: the under/over forms
         // divide by ωd or s₁ − s₂, which vanish there.
         let modes = if (zeta - 1.0).abs() < 1e-4 {
-            Modes::Critical { s: -alpha }
+            Modes::Critical { s: -alpha as f32 }
         } else if zeta < 1.0 {
             Modes::Under {
-                alpha,
-                wd: w0 * math::sqrt((1.0 - zeta) * (1.0 + zeta)),
+                alpha: alpha as f32,
+                wd: libm::sqrt((w0 - alpha) * (w0 + alpha)) as f32,
             }
         } else {
-            let root = w0 * math::sqrt((zeta - 1.0) * (zeta + 1.0));
+            let root = libm::sqrt((alpha - w0) * (alpha + w0));
             // s₁ = −α + root is the slow root, computed as ω₀²/s₂ to avoid cancellation.
             let s2 = -alpha - root;
             Modes::Over {
-                s1: w0 * w0 / s2,
-                s2,
+                s1: (w0 * w0 / s2) as f32,
+                s2: s2 as f32,
             }
         };
-        Ok(SnubberSwitchOff {
+        let out = SnubberSwitchOff {
             l,
             r_c,
             r_s,
@@ -193,8 +198,24 @@ impl SnubberSwitchOff {
             vs,
             i0,
             modes,
-            zeta,
-        })
+            zeta: zeta as f32,
+        };
+        // Every coefficient the queries use must be a finite f32 (nonzero rates included).
+        let (y0, dy0) = out.y_initial();
+        let ddy0 = -((r_c + r_s) * dy0 + y0 / c) / l;
+        let ki = out.modes.coeffs(i0, out.di0());
+        let ky = out.modes.coeffs(y0, dy0);
+        let kdy = out.modes.coeffs(dy0, ddy0);
+        let rates_ok = match out.modes {
+            Modes::Under { alpha, wd } => alpha > 0.0 && wd > 0.0 && wd.is_finite(),
+            Modes::Critical { s } => s < 0.0 && s.is_finite(),
+            Modes::Over { s1, s2 } => s1 < 0.0 && s2 < s1 && s2.is_finite(),
+        };
+        let all = [zeta as f32, ki.0, ki.1, ky.0, ky.1, kdy.0, kdy.1, ddy0, dy0];
+        if !(rates_ok && all.iter().all(|x| x.is_finite())) {
+            return Err(refuse());
+        }
+        Ok(out)
     }
 
     fn di0(&self) -> f32 {
@@ -273,33 +294,28 @@ impl SnubberSwitchOff {
         })
     }
 
-    /// Samples i(t) and the switch voltage every `dt` from switch-off into `out` (exact for the
-    /// model), until `out` is full or `duration` has passed; returns the number written. No
-    /// allocation: the caller owns the buffer.
+    /// Samples i(t), the switch voltage and the output voltage every `dt` from switch-off into
+    /// `out` (exact for the model), until `out` is full; returns the number written. No
+    /// allocation: the caller owns the buffer, and its length sets the duration.
+    ///
+    /// Work: one evaluation per sample.
     ///
     /// # Errors
     /// `dt` = 0 → [`Reason::NotPositive`] on `"sample interval"`.
-    pub fn sample(
-        &self,
-        dt: Seconds,
-        duration: Seconds,
-        out: &mut [Sample],
-    ) -> Result<usize, Error> {
+    pub fn sample(&self, dt: Seconds, out: &mut [Sample]) -> Result<usize, Error> {
         let dt_s = dt.value();
         if !(dt_s > 0.0) {
             return Err(Error::new("sample interval", Reason::NotPositive));
         }
         let mut n = 0usize;
         for (k, slot) in out.iter_mut().enumerate() {
-            let t = k as f32 * dt_s;
-            if t > duration.value() {
-                break;
-            }
-            let ts = Seconds::raw(t);
+            let ts = Seconds::raw(k as f32 * dt_s);
+            let v = self.switch_voltage_at(ts);
             *slot = Sample {
                 time: ts,
                 current: self.current_at(ts),
-                switch_voltage: self.switch_voltage_at(ts),
+                switch_voltage: v,
+                output_voltage: v,
             };
             n += 1;
         }

@@ -57,8 +57,9 @@ pub enum Verdict {
 /// Stored for the run-time check: the healthy window apart, the fault windows each as (lowest
 /// tick, span = hi − lo + 1), so that "inside" is one wrapping subtraction and one comparison,
 /// `ticks − lo < span` (wrapping makes a tick count below `lo` a huge number), and an unused
-/// slot (span 0) never matches: the loop runs over every slot without a length test. A window
-/// reaching `u32::MAX` is shortened to end at `u32::MAX − 1`.
+/// slot (span 0) never matches: the loop runs over every slot without a length test. The span
+/// saturates at `u32::MAX`: a window from 0 to `u32::MAX` covers every count but `u32::MAX`
+/// itself, the only case where a window is one tick narrower than asked.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Windows {
@@ -73,6 +74,9 @@ impl Windows {
     /// Windows from a table (for generated constants): the first `len` entries count (at most
     /// [`MAX_WINDOWS`]); entries with `lo > hi` never match; if several healthy entries are given,
     /// the last one counts.
+    ///
+    /// Work: one pass over at most [`MAX_WINDOWS`] entries; no arithmetic that can overflow
+    /// (the spans saturate).
     #[allow(clippy::indexing_slicing)] // const fn: `get` is unavailable; indices guarded below
     pub const fn from_entries(entries: [Entry; MAX_WINDOWS], len: usize) -> Self {
         let len = if len > MAX_WINDOWS { MAX_WINDOWS } else { len };
@@ -87,12 +91,13 @@ impl Windows {
         while k < len && k < MAX_WINDOWS {
             let e = entries[k];
             if e.lo <= e.hi && n_faults < MAX_WINDOWS {
+                // lo ≤ hi: the difference cannot wrap.
+                let width = e.hi - e.lo;
                 if matches!(e.condition, Condition::Healthy) {
-                    healthy = Some((e.lo, e.hi - e.lo));
+                    healthy = Some((e.lo, width));
                 } else {
                     fault_lo[n_faults] = e.lo;
-                    let hi = if e.hi == u32::MAX { u32::MAX - 1 } else { e.hi };
-                    fault_span[n_faults] = hi - e.lo + 1;
+                    fault_span[n_faults] = width.saturating_add(1);
                     fault_condition[n_faults] = e.condition;
                     n_faults += 1;
                 }
@@ -135,7 +140,7 @@ impl Windows {
     pub fn entries(&self) -> impl Iterator<Item = Entry> + '_ {
         let healthy = self.healthy.map(|(lo, w)| Entry {
             lo,
-            hi: lo + w,
+            hi: lo.saturating_add(w),
             condition: Condition::Healthy,
         });
         let faults = self
@@ -146,7 +151,7 @@ impl Windows {
             .take(self.n_faults)
             .map(|((&lo, &span), &c)| Entry {
                 lo,
-                hi: lo + (span - 1),
+                hi: lo.saturating_add(span.saturating_sub(1)),
                 condition: c,
             });
         healthy.into_iter().chain(faults)
@@ -176,6 +181,7 @@ impl Windows {
         let mut found = 0usize;
         for (k, (&lo, &span)) in self.fault_lo.iter().zip(self.fault_span.iter()).enumerate() {
             let inside = ticks.wrapping_sub(lo) < span;
+            // At most MAX_WINDOWS hits: the count cannot overflow.
             hits += inside as u32;
             found = if inside { k } else { found };
         }

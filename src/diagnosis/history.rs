@@ -1,18 +1,36 @@
 //! A fixed-capacity history of verdicts, so the firmware acts only on N consecutive faults.
 
 use super::classify::Verdict;
-use heapless::Deque;
 
-/// The last `N` verdicts, oldest dropped first.
+/// The last `N` verdicts, oldest dropped first: a ring buffer of `N` slots, no allocation.
+///
+/// `N` = 0 is allowed and stores nothing: [`VerdictHistory::consecutive`] is then always 0 and
+/// [`VerdictHistory::confirmed`] always false (a firmware that wants no confirmation should not
+/// ask for one).
+///
+/// ```
+/// use kickguard::diagnosis::history::VerdictHistory;
+/// use kickguard::diagnosis::Verdict;
+/// let mut none: VerdictHistory<0> = VerdictHistory::new();
+/// none.push(Verdict::Healthy);
+/// assert_eq!(none.latest(), None);
+/// ```
 #[derive(Debug, Clone, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct VerdictHistory<const N: usize> {
-    recent: Deque<Verdict, N>,
+    slots: [Verdict; N],
+    /// Index of the next slot to write.
+    next: usize,
+    /// Number of slots in use (≤ N).
+    len: usize,
 }
 
 impl<const N: usize> Default for VerdictHistory<N> {
     fn default() -> Self {
         VerdictHistory {
-            recent: Deque::new(),
+            slots: [Verdict::Unexplained; N],
+            next: 0,
+            len: 0,
         }
     }
 }
@@ -23,18 +41,35 @@ impl<const N: usize> VerdictHistory<N> {
         Self::default()
     }
 
-    /// Records a verdict, dropping the oldest when full.
+    /// Records a verdict, dropping the oldest when full. Work: constant.
     pub fn push(&mut self, v: Verdict) {
-        if self.recent.is_full() {
-            let _ = self.recent.pop_front();
+        if let Some(slot) = self.slots.get_mut(self.next) {
+            *slot = v;
+            // next < N here, so next + 1 cannot overflow.
+            self.next = if self.next + 1 == N { 0 } else { self.next + 1 };
+            if self.len < N {
+                self.len += 1;
+            }
         }
-        // Cannot fail: a slot was just freed if needed (and N = 0 stores nothing).
-        let _ = self.recent.push_back(v);
     }
 
-    /// How many of the newest verdicts in a row equal `v`.
+    /// The verdicts, newest first.
+    fn newest_first(&self) -> impl Iterator<Item = Verdict> + '_ {
+        // Slot of the k-th newest: next − 1 − k, modulo N (k < len ≤ N; nothing for N = 0).
+        (0..self.len).filter_map(move |k| {
+            let back = k + 1;
+            let idx = if self.next >= back {
+                self.next - back
+            } else {
+                self.next + N - back
+            };
+            self.slots.get(idx).copied()
+        })
+    }
+
+    /// How many of the newest verdicts in a row equal `v`. Work: at most N comparisons.
     pub fn consecutive(&self, v: Verdict) -> usize {
-        self.recent.iter().rev().take_while(|x| **x == v).count()
+        self.newest_first().take_while(|x| *x == v).count()
     }
 
     /// True when the newest `n` verdicts (n ≥ 1) are all `v`.
@@ -56,11 +91,38 @@ impl<const N: usize> VerdictHistory<N> {
 
     /// The newest verdict, if any.
     pub fn latest(&self) -> Option<Verdict> {
-        self.recent.back().copied()
+        self.newest_first().next()
     }
 
     /// Forgets everything (for example after the fault was handled).
     pub fn clear(&mut self) {
-        self.recent.clear();
+        self.next = 0;
+        self.len = 0;
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::diagnosis::Condition;
+
+    #[test]
+    fn ring_buffer_keeps_the_newest_n() {
+        let open = Verdict::Fault(Condition::FreewheelOpen);
+        let mut h: VerdictHistory<3> = VerdictHistory::new();
+        for v in [open, open, Verdict::Healthy, open, open] {
+            h.push(v);
+        }
+        assert_eq!(h.consecutive(open), 2);
+        assert_eq!(h.latest(), Some(open));
+        h.push(open);
+        assert_eq!(h.consecutive(open), 3);
+        assert!(h.confirmed(open, 3) && !h.confirmed(open, 4));
+        h.clear();
+        assert_eq!(h.latest(), None);
+        let mut one: VerdictHistory<1> = VerdictHistory::new();
+        one.push(Verdict::Healthy);
+        one.push(open);
+        assert_eq!((one.latest(), one.consecutive(open)), (Some(open), 1));
     }
 }

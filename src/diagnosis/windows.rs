@@ -11,11 +11,11 @@
 use super::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
 use super::Condition;
 use crate::breakdown::Breakdown;
-use crate::clamp::{Clamp, SwitchOff};
+use crate::clamp::{Clamp, Operating, Side, SwitchOff};
 use crate::coil::Coil;
 use crate::error::{self, Error, Reason};
-use crate::timing::to_ticks;
-use crate::units::{Amps, Henries, Ohms, Seconds, Temperature, Volts};
+use crate::timing::{to_ticks, to_ticks_floor};
+use crate::units::{Amps, Duty, Hertz, Ohms, Seconds, Temperature, Volts};
 
 /// What the firmware measures on each switch-off.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -90,7 +90,8 @@ pub struct Separation {
     /// Gap between this window and the healthy one, in seconds (negative: they overlap by that
     /// much, and the fault cannot be told from health by this measurement).
     pub gap: f32,
-    /// Gap relative to the healthy window's width (how many healthy widths apart).
+    /// Gap relative to the healthy window's width (how many healthy widths apart); a healthy
+    /// window narrower than 1 ns counts as 1 ns wide, so the figure is always finite.
     pub relative_gap: f32,
     /// True when the gap is positive: the fault is detectable.
     pub detectable: bool,
@@ -101,13 +102,15 @@ pub struct Separation {
 /// waiting for a decay.
 ///
 /// # Errors
-/// `i_on` ≤ 0 → [`Reason::NotPositive`] on `"on-current"` (an open coil); errors of
+/// `v_supply` ≤ 0 → [`Reason::NotPositive`] on `"supply voltage"`; `i_on` ≤ 0 →
+/// [`Reason::NotPositive`] on `"on-current"` (an open coil); errors of
 /// [`Coil::winding_temperature`].
 pub fn winding_temperature_from_current(
     coil: &Coil,
     v_supply: Volts,
     i_on: Amps,
 ) -> Result<Temperature, Error> {
+    error::positive("supply voltage", v_supply.value())?;
     let i = i_on.value();
     if !(i > 0.0) {
         return Err(Error::new("on-current", Reason::NotPositive));
@@ -143,6 +146,14 @@ impl Design {
         }
         if !(self.t_clamp_max >= self.t_clamp_min) {
             return Err(Error::new("clamp temperature range", Reason::NotIncreasing));
+        }
+        for (name, t) in [
+            ("coldest winding", self.t_winding_min),
+            ("fault winding temperature", self.t_winding_fault_max),
+            ("coldest clamp", self.t_clamp_min),
+            ("hottest clamp", self.t_clamp_max),
+        ] {
+            error::within(name, t.kelvin(), crate::coil::T_MIN_K, crate::coil::T_MAX_K)?;
         }
         Ok(())
     }
@@ -218,22 +229,21 @@ impl Design {
         };
         let (lo, hi) = (f32::INFINITY, f32::NEG_INFINITY);
         let mut acc = (lo, hi);
-        let l0 = self.coil.inductance().value() * l_scale;
-        let r0 = self.coil.resistance_ref().value() * r_scale;
+        let base = self.coil.scaled(l_scale, r_scale)?;
         for corner in 0u32..32 {
             let pick = |bit: u32, a: f32, b: f32| if corner & (1 << bit) == 0 { a } else { b };
-            let l = l0
-                * pick(
+            let coil = base.scaled(
+                pick(
                     0,
                     1.0 - self.inductance_tolerance,
                     1.0 + self.inductance_tolerance,
-                );
-            let r = r0
-                * pick(
+                ),
+                pick(
                     1,
                     1.0 - self.resistance_tolerance,
                     1.0 + self.resistance_tolerance,
-                );
+                ),
+            )?;
             let vs = Volts::new(pick(
                 2,
                 self.v_supply_min.value(),
@@ -245,14 +255,14 @@ impl Design {
                 self.t_clamp_min.kelvin(),
                 self.t_clamp_max.kelvin(),
             ))?;
-            let coil = Coil::new(
-                Henries::new(l)?,
-                Ohms::new(r)?,
-                self.coil.reference_temperature(),
-                self.coil.alpha_per_k(),
-            )?;
-            let i0 = coil.steady_current(vs, tw)?;
-            let off = SwitchOff::new(&coil, &clamp, vs, i0, tw, tc)?;
+            let op = Operating {
+                supply: vs,
+                start_current: coil.steady_current(vs, tw)?,
+                winding: tw,
+                diodes: tc,
+                breakdown: tc,
+            };
+            let off = SwitchOff::new(&coil, &clamp, Side::Low, &op)?;
             let t = Self::measure(&off, m)?;
             acc = (acc.0.min(t), acc.1.max(t));
         }
@@ -275,7 +285,9 @@ impl Design {
             .window(Condition::Healthy, m)?
             .ok_or(Error::new("clamp", Reason::Inconsistent))?;
         let (h_lo, h_hi) = (healthy.min.value(), healthy.max.value());
-        let width = (h_hi - h_lo).max(h_hi * 1e-6);
+        // A healthy window that is a single instant (a comparator a healthy switch-off never
+        // trips reads 0 at every corner) still has a finite relative gap: 1 ns floor.
+        let width = (h_hi - h_lo).max(h_hi * 1e-6).max(1e-9);
         let mut out = heapless::Vec::new();
         for cond in Condition::ALL.iter().skip(1) {
             if let Some(w) = self.window(*cond, m)? {
@@ -284,7 +296,7 @@ impl Design {
                     condition: *cond,
                     window: w,
                     gap,
-                    relative_gap: gap / width,
+                    relative_gap: error::result("relative gap", gap / width)?,
                     detectable: gap > 0.0,
                 };
                 // Capacity 5 = the number of faults: cannot overflow.
@@ -307,8 +319,8 @@ impl Design {
     pub fn banded_tick_windows<const B: usize>(
         &self,
         m: &Measurement,
-        tick_hz: f32,
-        guard: f32,
+        tick: Hertz,
+        guard: Duty,
         upper_edges: [Temperature; B],
     ) -> Result<BandedWindows<B>, Error> {
         let mut out = BandedWindows {
@@ -333,7 +345,7 @@ impl Design {
             if let (Some(e), Some(w)) = (out.upper_edges_deci_c.get_mut(k), out.windows.get_mut(k))
             {
                 *e = deci as i16;
-                *w = band.tick_windows(m, tick_hz, guard)?;
+                *w = band.tick_windows(m, tick, guard)?;
             }
             lo = *edge;
         }
@@ -350,10 +362,10 @@ impl Design {
     pub fn tick_windows(
         &self,
         m: &Measurement,
-        tick_hz: f32,
-        guard: f32,
+        tick: Hertz,
+        guard: Duty,
     ) -> Result<Windows, Error> {
-        let g = error::non_negative("guard", guard)?;
+        let g = guard.value();
         if !(g < 1.0) {
             return Err(Error::new("guard", Reason::OutsideValidatedRange));
         }
@@ -363,14 +375,9 @@ impl Design {
             if let Some(w) = self.window(cond, m)? {
                 let lo_s = Seconds::new(w.min.value() * (1.0 - g))?;
                 let hi_s = Seconds::new(w.max.value() * (1.0 + g))?;
-                // Round the lower edge down: to_ticks rounds up, so take one tick less unless exact.
-                let lo_up = to_ticks(lo_s, tick_hz)?;
-                let lo = if lo_up > 0 && (lo_up as f64) > lo_s.value() as f64 * tick_hz as f64 {
-                    lo_up - 1
-                } else {
-                    lo_up
-                };
-                let hi = to_ticks(hi_s, tick_hz)?;
+                // Outward: the lower edge rounded down, the upper edge up.
+                let lo = to_ticks_floor(lo_s, tick)?;
+                let hi = to_ticks(hi_s, tick)?;
                 if let Some(slot) = entries.get_mut(n) {
                     *slot = Entry {
                         lo,

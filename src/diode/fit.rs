@@ -17,11 +17,16 @@
 //! behaviour then follows from the SPICE law: a drop at a second temperature gives EG in closed
 //! form, and so does a stated tempco dV/dT at a current, from dVj/dT = (Vj − XTI·Vt − EG)/T.
 //!
-//! Every fit is checked afterwards: the result must be physical (N in 0.3…10, RS ≥ 0, EG in
-//! 0.1…3 eV) and the fitted law must reproduce each given point within 1 mV. Points that
-//! contradict the model are an error, never a silent fit.
+//! Every fit is checked afterwards: the result must lie in the accepted box of
+//! [`DiodeParams::new`] (IS 1e-20…1e-2 A, N 0.5…5, RS 0…100 Ω, EG 0.4…3.6 eV, TNOM −55…150 °C)
+//! and the fitted law must reproduce each given point within 1 mV. Points that contradict the
+//! model are an error, never a silent fit.
+//!
+//! Work: fixed, [`FIT_PASSES`] linear solves of size 2 or 3; the EG fits are closed forms.
 
-use super::params::{check_eg_xti, checked_t, DiodeParams};
+use super::params::{
+    checked_t, BandGap, DiodeParams, Xti, IS_RANGE, N_RANGE, RS_MAX_OHM, TNOM_RANGE_K,
+};
 use crate::error::{Error, Reason};
 use crate::math;
 use crate::physics::vt_at;
@@ -73,31 +78,32 @@ fn finish(
     ln_is: f32,
     rs: f32,
     t_k: f32,
-    eg_ev: f32,
-    xti: f32,
+    eg: BandGap,
+    xti: Xti,
     points: &[DropPoint],
 ) -> Result<DiodeParams, Error> {
+    let inconsistent = Err(Error::new("points", Reason::Inconsistent));
     if !(a.is_finite() && ln_is.is_finite() && rs.is_finite()) {
-        return Err(Error::new("points", Reason::Inconsistent));
+        return inconsistent;
     }
-    if rs < 0.0 {
-        return Err(Error::new("points", Reason::Inconsistent));
+    if !(0.0..=RS_MAX_OHM).contains(&rs) {
+        return inconsistent;
     }
     let n = a / vt_at(t_k);
-    if !(0.3..=10.0).contains(&n) {
-        return Err(Error::new("points", Reason::Inconsistent));
+    if !(N_RANGE.0..=N_RANGE.1).contains(&n) {
+        return inconsistent;
     }
     let is_a = math::exp(ln_is);
-    if !(is_a > crate::units::MIN_MAGNITUDE && is_a <= 1.0) {
-        return Err(Error::new("points", Reason::Inconsistent));
+    if !(IS_RANGE.0..=IS_RANGE.1).contains(&is_a) {
+        return inconsistent;
     }
     let p = DiodeParams {
         is_a,
         ln_is,
         n,
         rs_ohm: rs,
-        eg_ev,
-        xti,
+        eg_ev: eg.value_ev(),
+        xti: xti.value(),
         tnom_k: t_k,
     };
     verify(&p, t_k, points)?;
@@ -126,28 +132,28 @@ fn verify(p: &DiodeParams, t_k: f32, points: &[DropPoint]) -> Result<(), Error> 
 /// Currents not strictly increasing → [`Reason::NotIncreasing`] on `"point current"`; junction
 /// drops not strictly increasing → [`Reason::Inconsistent`] on `"point voltage"`; an unphysical
 /// result or a point off the fitted law by more than 1 mV → [`Reason::Inconsistent`] on
-/// `"points"`; `t`, `eg_ev`, `xti` outside the ranges of [`DiodeParams::new`] →
-/// [`Reason::OutsideValidatedRange`] naming them.
+/// `"points"`; `t` outside TNOM's range of [`DiodeParams::new`] (−55…150 °C) →
+/// [`Reason::OutsideValidatedRange`] on `"temperature"`.
 ///
 /// ```
-/// use kickguard::diode::{fit_two_points, DiodeParams, DropPoint};
+/// use kickguard::diode::{fit_two_points, BandGap, DiodeParams, DropPoint, Xti};
 /// use kickguard::{Ohms, Temperature};
-/// let t = Temperature::from_celsius(25.0).unwrap();
+/// let t = Temperature::from_celsius(25.0)?;
 /// let d = fit_two_points(
-///     [DropPoint::new(0.001, 0.60).unwrap(), DropPoint::new(0.1, 0.80).unwrap()],
-///     t, Ohms::new(0.0).unwrap(), 1.11, 3.0,
-/// ).unwrap();
-/// assert!((d.n() - 1.690).abs() < 0.005);
+///     [DropPoint::new(0.001, 0.60)?, DropPoint::new(0.1, 0.80)?],
+///     t, Ohms::new(0.0)?, BandGap::SILICON, Xti::PN,
+/// )?;
+/// assert!((d.n().value() - 1.690).abs() < 0.005);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 pub fn fit_two_points(
     points: [DropPoint; 2],
     t: Temperature,
     rs: Ohms,
-    eg_ev: f32,
-    xti: f32,
+    eg: BandGap,
+    xti: Xti,
 ) -> Result<DiodeParams, Error> {
-    let t_k = checked_t("temperature", t)?;
-    check_eg_xti(eg_ev, xti)?;
+    let t_k = fit_temperature(t)?;
     let (i1, v1) = check_point(&points[0])?;
     let (i2, v2) = check_point(&points[1])?;
     if !(i2 > i1) {
@@ -169,7 +175,16 @@ pub fn fit_two_points(
             return Err(Error::new("points", Reason::Inconsistent));
         }
     }
-    finish(a, ln_is, r, t_k, eg_ev, xti, &points)
+    finish(a, ln_is, r, t_k, eg, xti, &points)
+}
+
+/// The fit's temperature becomes TNOM: it must lie in TNOM's accepted range.
+fn fit_temperature(t: Temperature) -> Result<f32, Error> {
+    let t_k = checked_t("temperature", t)?;
+    if !(TNOM_RANGE_K.0..=TNOM_RANGE_K.1).contains(&t_k) {
+        return Err(Error::new("temperature", Reason::OutsideValidatedRange));
+    }
+    Ok(t_k)
 }
 
 /// Fits IS, N and RS to three (I, V) points measured at temperature `t`, with EG and XTI given.
@@ -185,25 +200,26 @@ pub fn fit_two_points(
 /// [`Reason::Inconsistent`] on `"points"`.
 ///
 /// ```
-/// use kickguard::diode::{fit_three_points, DiodeParams, DropPoint};
+/// use kickguard::diode::{fit_three_points, BandGap, DiodeParams, DropPoint, Xti};
 /// use kickguard::{Amps, Temperature};
 /// // Three points generated from the silicon preset at its TNOM:
 /// let si = DiodeParams::SILICON;
 /// let t = si.tnom();
-/// let pt = |i: f32| DropPoint { current: Amps::new(i).unwrap(),
-///                               voltage: si.forward_drop(Amps::new(i).unwrap(), t).unwrap() };
-/// let d = fit_three_points([pt(0.001), pt(0.1), pt(3.0)], t, 1.11, 3.0).unwrap();
+/// let pt = |i: f32| -> Result<DropPoint, kickguard::Error> {
+///     Ok(DropPoint { current: Amps::new(i)?, voltage: si.forward_drop(Amps::new(i)?, t)? })
+/// };
+/// let d = fit_three_points([pt(0.001)?, pt(0.1)?, pt(3.0)?], t, BandGap::SILICON, Xti::PN)?;
 /// assert!((d.rs().value() - 0.05).abs() < 0.005);
-/// assert!((d.n() - 1.8).abs() < 0.01);
+/// assert!((d.n().value() - 1.8).abs() < 0.01);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 pub fn fit_three_points(
     points: [DropPoint; 3],
     t: Temperature,
-    eg_ev: f32,
-    xti: f32,
+    eg: BandGap,
+    xti: Xti,
 ) -> Result<DiodeParams, Error> {
-    let t_k = checked_t("temperature", t)?;
-    check_eg_xti(eg_ev, xti)?;
+    let t_k = fit_temperature(t)?;
     let (i1, v1) = check_point(&points[0])?;
     let (i2, v2) = check_point(&points[1])?;
     let (i3, v3) = check_point(&points[2])?;
@@ -237,7 +253,7 @@ pub fn fit_three_points(
             return Err(Error::new("points", Reason::Inconsistent));
         }
     }
-    finish(a, ln_is, rs, t_k, eg_ev, xti, &points)
+    finish(a, ln_is, rs, t_k, eg, xti, &points)
 }
 
 impl DiodeParams {
@@ -250,7 +266,7 @@ impl DiodeParams {
     /// # Errors
     /// `t2` within 1 K of TNOM → [`Reason::Inconsistent`] on `"second temperature"`; `t2` outside
     /// the validated range → [`Reason::OutsideValidatedRange`] on `"second temperature"`; a
-    /// resulting EG outside 0.1…3 eV (the drop moved the wrong way or far too much) →
+    /// resulting EG outside 0.4…3.6 eV (the drop moved the wrong way or far too much) →
     /// [`Reason::Inconsistent`] on `"second point"`.
     ///
     /// ```
@@ -258,9 +274,9 @@ impl DiodeParams {
     /// use kickguard::Temperature;
     /// let si = DiodeParams::SILICON;
     /// // 0.55 V at 1 mA and 55 °C: a junction that moves about −2.1 mV/K.
-    /// let d = si.with_eg_from_point(DropPoint::new(1e-3, 0.55).unwrap(),
-    ///                               Temperature::from_celsius(55.0).unwrap()).unwrap();
-    /// assert!(d.eg_ev() > 1.0 && d.eg_ev() < 1.3);
+    /// let d = si.with_eg_from_point(DropPoint::new(1e-3, 0.55)?, Temperature::from_celsius(55.0)?)?;
+    /// assert!(d.eg().value_ev() > 1.0 && d.eg().value_ev() < 1.3);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn with_eg_from_point(self, point: DropPoint, t2: Temperature) -> Result<Self, Error> {
         let t2_k = checked_t("second temperature", t2)?;
@@ -292,14 +308,15 @@ impl DiodeParams {
     ///
     /// # Errors
     /// `i` ≤ 0 → [`Reason::NotPositive`] on `"forward current"`; a non-finite tempco →
-    /// [`Reason::NotFinite`] on `"tempco"`; a resulting EG outside 0.1…3 eV →
+    /// [`Reason::NotFinite`] on `"tempco"`; a resulting EG outside 0.4…3.6 eV →
     /// [`Reason::Inconsistent`] on `"tempco"`.
     ///
     /// ```
     /// use kickguard::diode::DiodeParams;
     /// use kickguard::Amps;
-    /// let d = DiodeParams::SILICON.with_eg_from_tempco(Amps::new(1e-3).unwrap(), -2.0e-3).unwrap();
-    /// assert!((d.eg_ev() - 1.133).abs() < 0.01);
+    /// let d = DiodeParams::SILICON.with_eg_from_tempco(Amps::new(1e-3)?, -2.0e-3)?;
+    /// assert!((d.eg().value_ev() - 1.133).abs() < 0.01);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn with_eg_from_tempco(self, i: Amps, dv_dt_v_per_k: f32) -> Result<Self, Error> {
         let i_a = i.value();
@@ -317,10 +334,12 @@ impl DiodeParams {
     }
 
     fn with_fitted_eg(self, eg: f32, input: &'static str) -> Result<Self, Error> {
-        if eg.is_finite() && (0.1..=3.0).contains(&eg) {
-            Ok(DiodeParams { eg_ev: eg, ..self })
-        } else {
-            Err(Error::new(input, Reason::Inconsistent))
+        match BandGap::ev(eg) {
+            Ok(b) => Ok(DiodeParams {
+                eg_ev: b.value_ev(),
+                ..self
+            }),
+            Err(_) => Err(Error::new(input, Reason::Inconsistent)),
         }
     }
 }

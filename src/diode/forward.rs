@@ -17,7 +17,24 @@ use super::params::{checked_t, DiodeParams};
 use crate::error::{self, Error, Reason};
 use crate::math;
 use crate::physics::vt_at;
-use crate::units::{Amps, Temperature, Volts};
+use crate::units::{Amps, Temperature, Volts, MIN_MAGNITUDE};
+
+/// A computed physical magnitude that must be strictly positive: one that underflowed below the
+/// quantity bounds is [`Reason::TooSmall`] (never a silent 0), one above them
+/// [`Reason::TooLarge`].
+pub(crate) fn positive_result(what: &'static str, x: f32) -> Result<f32, Error> {
+    if !(x >= MIN_MAGNITUDE) {
+        return Err(Error::new(
+            what,
+            if x.is_nan() {
+                Reason::NotFinite
+            } else {
+                Reason::TooSmall
+            },
+        ));
+    }
+    error::finite(what, x)
+}
 
 impl DiodeParams {
     /// ln(IS(T)/A) at `t_k` kelvin (already validated).
@@ -44,8 +61,9 @@ impl DiodeParams {
     ///
     /// # Errors
     /// `t` outside the validated range → [`Reason::OutsideValidatedRange`] on `"temperature"`;
-    /// IS(T) below [`crate::units::MIN_MAGNITUDE`] (a very cold, very good diode) →
-    /// [`Reason::TooSmall`] on `"saturation current"`.
+    /// IS(T) below [`crate::units::MIN_MAGNITUDE`] (a very cold, very good diode: it would
+    /// underflow) → [`Reason::TooSmall`] on `"saturation current"`; above 1e12 A →
+    /// [`Reason::TooLarge`].
     ///
     /// ```
     /// use kickguard::{diode::DiodeParams, Temperature};
@@ -56,8 +74,7 @@ impl DiodeParams {
     /// ```
     pub fn saturation_current(&self, t: Temperature) -> Result<Amps, Error> {
         let t_k = checked_t("temperature", t)?;
-        let is_t = math::exp(self.ln_is_at(t_k));
-        Amps::new(is_t).map_err(|e| Error::new("saturation current", e.reason))
+        positive_result("saturation current", math::exp(self.ln_is_at(t_k))).map(Amps::raw)
     }
 
     /// Forward drop V(I, T) = N·Vt·ln(1 + I/IS(T)) + I·RS, in volts.
@@ -68,7 +85,11 @@ impl DiodeParams {
     ///
     /// # Errors
     /// `i` ≤ 0 → [`Reason::NotPositive`] on `"forward current"`; `t` out of range →
-    /// [`Reason::OutsideValidatedRange`] on `"temperature"`.
+    /// [`Reason::OutsideValidatedRange`] on `"temperature"`; a drop that would underflow to zero
+    /// (a current far below IS(T), so small the drop is under 1e-30 V) → [`Reason::TooSmall`]
+    /// on `"forward drop"`.
+    ///
+    /// Work: constant (one logarithm, one exponential, one ln(1 + x)).
     ///
     /// ```
     /// use kickguard::{diode::DiodeParams, Amps, Temperature};
@@ -84,7 +105,7 @@ impl DiodeParams {
         }
         let t_k = checked_t("temperature", t)?;
         let v = self.junction_drop(i_a, t_k) + i_a * self.rs_ohm;
-        Volts::new(v).map_err(|e| Error::new("forward drop", e.reason))
+        positive_result("forward drop", v).map(Volts::raw)
     }
 
     /// Temperature coefficient of the forward drop at constant current, dV/dT, in volts per kelvin.
@@ -130,7 +151,8 @@ impl DiodeParams {
     ///
     /// # Errors
     /// `v_r` < 0 → [`Reason::Negative`] on `"reverse voltage"`; temperature as
-    /// [`DiodeParams::saturation_current`].
+    /// [`DiodeParams::saturation_current`]; a leakage that underflows (below 1e-30 A: a very cold
+    /// junction) → [`Reason::TooSmall`] on `"reverse current"`.
     pub fn reverse_leakage(&self, v_r: Volts, t: Temperature) -> Result<Amps, Error> {
         let vr = v_r.value();
         if vr < 0.0 {
@@ -140,7 +162,10 @@ impl DiodeParams {
         let nvt = self.n * vt_at(t_k);
         // 1 − e^(−x) = −expm1(−x), exact for small x.
         let shape = -math::exp_m1(-vr / nvt);
+        if vr == 0.0 {
+            return Ok(Amps::raw(0.0));
+        }
         let i = math::exp(self.ln_is_at(t_k)) * shape;
-        Amps::new(i).map_err(|e| Error::new("reverse current", e.reason))
+        positive_result("reverse current", i).map(Amps::raw)
     }
 }

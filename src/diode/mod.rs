@@ -1,8 +1,10 @@
 //! Diode model: forward drop, its inverse, leakage and fitting, over temperature.
 //!
 //! Read in this order:
-//! 1. [`params`]: the SPICE-class parameters (IS, N, RS, EG, XTI, TNOM) and the generic
-//!    [`DiodeParams::SILICON`] and [`DiodeParams::SCHOTTKY`] presets.
+//! 1. [`params`]: the SPICE-class parameters (IS, N, RS, EG, XTI, TNOM) with their own types
+//!    ([`Ideality`], [`BandGap`], [`Xti`]), the generic [`DiodeParams::SILICON`] and
+//!    [`DiodeParams::SCHOTTKY`] presets, and [`Diode`]: a diode in a circuit, by its law or a
+//!    fixed drop.
 //! 2. [`forward`]: the Shockley equation with series resistance and the SPICE2 temperature law
 //!    for IS: [`DiodeParams::forward_drop`], [`DiodeParams::saturation_current`],
 //!    [`DiodeParams::forward_tempco_v_per_k`], [`DiodeParams::reverse_leakage`].
@@ -23,4 +25,4 @@ pub mod series;
 pub mod thermometer;
 
 pub use fit::{fit_three_points, fit_two_points, DropPoint, FIT_PASSES, FIT_TOLERANCE_V};
-pub use params::{DiodeParams, T_MAX_K, T_MIN_K};
+pub use params::{BandGap, Diode, DiodeParams, Ideality, Xti, T_MAX_K, T_MIN_K};

@@ -7,8 +7,9 @@
 //! supply). The rail-on check uses the steady total (a transient is absorbed by the rail's
 //! capacitance; its charge is not modelled here).
 
+use super::rail::RailLoad;
 use super::resistor::InjectionLimits;
-use super::{rail, Pin, SignalRange};
+use super::{Pin, SignalRange};
 use crate::error::{Error, Reason};
 use crate::rating::Verdict;
 use crate::units::{Amps, Ohms};
@@ -76,19 +77,19 @@ pub struct BoardReport<const N: usize> {
 pub struct Board<const N: usize> {
     pin: Pin,
     total: InjectionLimits,
-    rail_min_load: Option<Amps>,
+    rail: Option<RailLoad>,
     inputs: Vec<BoardInput, N>,
 }
 
 impl<const N: usize> Board<N> {
     /// An empty board. `pin` gives the supply (use its lowest value), clamp diodes and hottest
-    /// temperature; `total` the limits summed over all pins; `rail_min_load` the rail's minimum
-    /// load current, if the rail-on check should be made.
-    pub fn new(pin: Pin, total: InjectionLimits, rail_min_load: Option<Amps>) -> Self {
+    /// temperature; `total` the limits summed over all pins; `rail` the rail's minimum load, if
+    /// the rail-on check should be made. Everything is validated by [`Board::check`].
+    pub fn new(pin: Pin, total: InjectionLimits, rail: Option<RailLoad>) -> Self {
         Board {
             pin,
             total,
-            rail_min_load,
+            rail,
             inputs: Vec::new(),
         }
     }
@@ -103,30 +104,40 @@ impl<const N: usize> Board<N> {
 
     /// Checks every input and the totals.
     ///
+    /// Work: three injections per input (each at most two bounded Newton solves).
+    ///
     /// # Errors
-    /// A limit ≤ 0 → [`Reason::NotPositive`] naming it; errors of [`Pin::injection`].
+    /// A limit ≤ 0 → [`Reason::NotPositive`] naming it; errors of [`SignalRange::validate`] and
+    /// [`Pin::injection`].
     ///
     /// ```
     /// use kickguard::input::board::{Board, BoardInput};
-    /// use kickguard::input::{resistor::InjectionLimits, Pin, PinClamp, SignalRange};
-    /// use kickguard::{diode::DiodeParams, Amps, Ohms, Seconds, Temperature, Volts};
-    /// let pin = Pin::new(Volts::new(3.0).unwrap(), PinClamp::DiodeLaw(DiodeParams::SILICON),
-    ///                    Temperature::from_celsius(85.0).unwrap()).unwrap();
-    /// let ma = |x: f32| Amps::new(x * 1e-3).unwrap();
-    /// let mut board: Board<4> = Board::new(pin, InjectionLimits { positive: ma(20.0), negative: ma(20.0) }, Some(ma(8.0)));
-    /// let rain = SignalRange::new(Volts::new(0.0).unwrap(), Volts::new(24.0).unwrap(),
-    ///     Volts::new(-2.0).unwrap(), Volts::new(30.0).unwrap(), Seconds::new(1e-3).unwrap()).unwrap();
-    /// board.add(BoardInput { name: "rain", signal: rain, resistor: Ohms::new(10_000.0).unwrap(),
-    ///                        limits: InjectionLimits { positive: ma(5.0), negative: ma(5.0) } }).unwrap();
-    /// let report = board.check().unwrap();
+    /// use kickguard::input::{rail::RailLoad, resistor::InjectionLimits, Pin, SignalRange};
+    /// use kickguard::{diode::{Diode, DiodeParams}, Amps, Ohms, Seconds, Temperature, Volts};
+    /// let pin = Pin::new(Volts::new(3.0)?, Diode::Law(DiodeParams::SILICON),
+    ///                    Temperature::from_celsius(85.0)?)?;
+    /// let ma = |x: f32| Amps::new(x * 1e-3);
+    /// let total = InjectionLimits { positive: ma(20.0)?, negative: ma(20.0)? };
+    /// let mut board: Board<4> = Board::new(pin, total, Some(RailLoad::new(ma(8.0)?)?));
+    /// let rain = SignalRange { steady_min: Volts::new(0.0)?, steady_max: Volts::new(24.0)?,
+    ///     transient_min: Volts::new(-2.0)?, transient_max: Volts::new(30.0)?,
+    ///     transient_width: Seconds::new(1e-3)? };
+    /// let limits = InjectionLimits { positive: ma(5.0)?, negative: ma(5.0)? };
+    /// board.add(BoardInput { name: "rain", signal: rain, resistor: Ohms::new(10_000.0)?, limits })
+    ///     .map_err(|_| kickguard::Error::new("board", kickguard::Reason::TooLarge))?;
+    /// let report = board.check()?;
     /// assert!(report.pass);
+    /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn check(&self) -> Result<BoardReport<N>, Error> {
         let mut inputs: Vec<InputResult, N> = Vec::new();
         let (mut tot_pos, mut tot_neg, mut steady_pos) = (0.0f32, 0.0f32, 0.0f32);
         let mut worst = f32::INFINITY;
         let mut pass = true;
+        self.pin.validate()?;
         for inp in &self.inputs {
+            inp.signal.validate()?;
+            inp.limits.validate()?;
             let pos = self
                 .pin
                 .injection(inp.signal.transient_max, inp.resistor)?
@@ -178,9 +189,9 @@ impl<const N: usize> Board<N> {
         )?;
         pass &= tpv.pass && tnv.pass;
         worst = worst.min(tpv.margin).min(tnv.margin);
-        let rail_on = match self.rail_min_load {
+        let rail_on = match self.rail {
             Some(load) => {
-                let v = rail::rail_on_check(Amps::new(steady_pos)?, load)?;
+                let v = load.check(Amps::new(steady_pos)?)?;
                 pass &= v.pass;
                 worst = worst.min(v.margin);
                 Some(v)

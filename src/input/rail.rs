@@ -19,29 +19,66 @@
 //! 1 µV). A Schottky's lower drop takes most of the current, which is how it protects.
 
 use super::Pin;
-use crate::diode::DiodeParams;
+use crate::diode::{Diode, DiodeParams};
 use crate::error::{self, Error, Reason};
 use crate::rating::Verdict;
 use crate::solve::illinois;
 use crate::units::{Amps, Ohms, Volts};
 
-/// Rail-on back-powering check: total current injected into the rail against the rail's
-/// minimum load.
-///
-/// # Errors
-/// `min_load` ≤ 0 → [`Reason::NotPositive`] on `"rail minimum load"`.
-///
-/// ```
-/// use kickguard::{input::rail::rail_on_check, Amps};
-/// let v = rail_on_check(Amps::new(6e-3).unwrap(), Amps::new(8e-3).unwrap()).unwrap();
-/// assert!(v.pass && (v.margin - 1.0 / 3.0).abs() < 1e-6);
-/// ```
-pub fn rail_on_check(total_injected: Amps, min_load: Amps) -> Result<Verdict, Error> {
-    Verdict::of(
-        total_injected.value().max(0.0),
-        min_load.value(),
-        "rail minimum load",
-    )
+/// The powered rail's minimum load: the current its loads always draw, which is all the
+/// injected current the regulator can absorb.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct RailLoad {
+    min_load: Amps,
+}
+
+impl RailLoad {
+    /// A rail that never draws less than `min_load` (> 0).
+    ///
+    /// # Errors
+    /// `min_load` ≤ 0 → [`Reason::NotPositive`] on `"rail minimum load"`.
+    pub fn new(min_load: Amps) -> Result<Self, Error> {
+        error::positive("rail minimum load", min_load.value())?;
+        Ok(RailLoad { min_load })
+    }
+
+    /// The minimum load.
+    pub fn min_load(&self) -> Amps {
+        self.min_load
+    }
+
+    /// Rail-on back-powering check: the total current injected into the rail against its
+    /// minimum load.
+    ///
+    /// # Errors
+    /// A negative injection is counted as zero; none otherwise (the rail was validated).
+    ///
+    /// ```
+    /// use kickguard::{input::rail::RailLoad, Amps};
+    /// let v = RailLoad::new(Amps::new(8e-3)?)?.check(Amps::new(6e-3)?)?;
+    /// assert!(v.pass && (v.margin - 1.0 / 3.0).abs() < 1e-6);
+    /// # Ok::<(), kickguard::Error>(())
+    /// ```
+    pub fn check(&self, total_injected: Amps) -> Result<Verdict, Error> {
+        Verdict::of(
+            total_injected.value().max(0.0),
+            self.min_load.value(),
+            "rail minimum load",
+        )
+    }
+}
+
+/// The unpowered rail: its loads, seen as one resistance to ground, and the voltage it may be
+/// pushed to before parts on it half-power. Fields are public for readable literals;
+/// [`rail_off_check`] validates them.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct UnpoweredRail {
+    /// The rail's load resistance (> 0).
+    pub load: Ohms,
+    /// The highest rail voltage allowed (> 0).
+    pub allowed: Volts,
 }
 
 /// Result of the rail-off check.
@@ -56,34 +93,36 @@ pub struct RailOff {
     pub verdict: Verdict,
 }
 
-/// Rail-off back-powering: the voltage a signal at `v_signal` through `r` pushes onto the
-/// unpowered rail whose loads look like `r_load`, against `allowed`.
+/// Rail-off back-powering: the voltage a signal at `v_signal` through `r_series` pushes onto
+/// the unpowered `rail`, against what it allows.
 ///
 /// # Errors
-/// `r_load` = 0 → [`Reason::NotPositive`] on `"rail load resistance"`; `allowed` ≤ 0 →
-/// [`Reason::NotPositive`] on `"allowed rail voltage"`; errors of the diode model.
+/// `rail.load` = 0 → [`Reason::NotPositive`] on `"rail load resistance"`; `rail.allowed` ≤ 0 →
+/// [`Reason::NotPositive`] on `"allowed rail voltage"`; errors of [`Pin::validate`] and of the
+/// diode model.
 pub fn rail_off_check(
     pin: &Pin,
     v_signal: Volts,
-    r: Ohms,
-    r_load: Ohms,
-    allowed: Volts,
+    r_series: Ohms,
+    rail: &UnpoweredRail,
 ) -> Result<RailOff, Error> {
-    let rl = r_load.value();
+    pin.validate()?;
+    let rl = rail.load.value();
     if !(rl > 0.0) {
         return Err(Error::new("rail load resistance", Reason::NotPositive));
     }
+    let allowed = error::positive("allowed rail voltage", rail.allowed.value())?;
     let unpowered = Pin {
         vdd: Volts::raw(0.0),
         ..*pin
     };
-    let total = Ohms::new(r.value() + rl)?;
+    let total = Ohms::new(r_series.value() + rl).map_err(|e| e.on("series resistor"))?;
     let i = unpowered.diode_current(v_signal.value(), total)?;
     let v_rail = i * rl;
     Ok(RailOff {
         current: Amps::new(i)?,
         rail_voltage: Volts::new(v_rail)?,
-        verdict: Verdict::of(v_rail, allowed.value(), "allowed rail voltage")?,
+        verdict: Verdict::of(v_rail, allowed, "allowed rail voltage")?,
     })
 }
 
@@ -99,28 +138,34 @@ pub struct SharedClamp {
     pub node: Volts,
 }
 
-/// Sharing between the internal upper clamp (`internal`, a diode law) and an `external` diode
+/// Sharing between the pin's internal upper clamp (its diode law) and an `external` diode
 /// from the pin node to the same rail, for a source `v_signal` through `r`. For a clamp to
-/// ground, mirror the voltages (pass −V_s and V_DD = 0).
+/// ground, mirror the voltages (pass −V_s and a pin at V_DD = 0).
 ///
-/// Accuracy: node voltage to 1 µV, currents to the diode model's accuracy.
+/// Accuracy: node voltage to 1 µV, currents to the diode model's accuracy. Work: at most 100
+/// bracketed iterations, each two bounded Newton solves.
 ///
 /// # Errors
-/// `r` = 0 → [`Reason::NotPositive`] on `"series resistor"`; a solve that cannot bracket the
-/// node voltage → [`Reason::Inconsistent`] on `"node voltage"`; errors of the diode model.
+/// A pin whose clamp is a fixed drop (a sharing needs both laws) → [`Reason::Inconsistent`] on
+/// `"pin clamp"`; `r` = 0 → [`Reason::NotPositive`] on `"series resistor"`; a solve that cannot
+/// bracket the node voltage → [`Reason::Inconsistent`] on `"node voltage"`; errors of
+/// [`Pin::validate`] and of the diode model.
 pub fn shared_clamp(
-    vdd: Volts,
-    internal: &DiodeParams,
+    pin: &Pin,
     external: &DiodeParams,
-    pin_temperature: crate::units::Temperature,
     v_signal: Volts,
     r: Ohms,
 ) -> Result<SharedClamp, Error> {
+    pin.validate()?;
+    let Diode::Law(internal) = pin.clamp else {
+        return Err(Error::new("pin clamp", Reason::Inconsistent));
+    };
+    let t = pin.temperature;
     let rv = r.value();
     if !(rv > 0.0) {
         return Err(Error::new("series resistor", Reason::NotPositive));
     }
-    let (vs, vdd) = (v_signal.value(), vdd.value());
+    let (vs, vdd) = (v_signal.value(), pin.vdd.value());
     if !(vs > vdd) {
         let node = Volts::new(vs)?;
         return Ok(SharedClamp {
@@ -132,7 +177,7 @@ pub fn shared_clamp(
     let current = |d: &DiodeParams, v: f32| -> f32 {
         if v > 0.0 {
             Volts::new(v)
-                .and_then(|v| d.forward_current(v, pin_temperature))
+                .and_then(|v| d.forward_current(v, t))
                 .map(|i| i.value())
                 .unwrap_or(f32::INFINITY)
         } else {
@@ -141,12 +186,12 @@ pub fn shared_clamp(
     };
     // f(V_n) = (V_s − V_n)/R − I_int − I_ext: positive at V_n = V_DD; at the node voltage where
     // the internal diode alone carries the largest possible current (V_s − V_DD)/R it is ≤ 0.
-    let f = |vn: f32| (vs - vn) / rv - current(internal, vn - vdd) - current(external, vn - vdd);
+    let f = |vn: f32| (vs - vn) / rv - current(&internal, vn - vdd) - current(external, vn - vdd);
     let i_max = Amps::new((vs - vdd) / rv)?;
-    let hi = (vdd + internal.forward_drop(i_max, pin_temperature)?.value()).min(vs);
+    let hi = (vdd + internal.forward_drop(i_max, t)?.value()).min(vs);
     let vn =
         illinois(f, vdd, hi, 1e-6, 100).ok_or(Error::new("node voltage", Reason::Inconsistent))?;
-    let (ii, ie) = (current(internal, vn - vdd), current(external, vn - vdd));
+    let (ii, ie) = (current(&internal, vn - vdd), current(external, vn - vdd));
     Ok(SharedClamp {
         internal: Amps::new(error::result("internal current", ii)?)?,
         external: Amps::new(error::result("external current", ie)?)?,
@@ -159,15 +204,17 @@ pub fn shared_clamp(
 /// into the neighbour, whose source impedance `r_source` turns it into a voltage error.
 ///
 /// # Errors
-/// `coupling` negative or non-finite → [`Reason::Negative`] / [`Reason::NotFinite`] on
-/// `"coupling ratio"`.
+/// `coupling` outside 0…1 or non-finite → [`Reason::OutsideValidatedRange`] /
+/// [`Reason::NotFinite`] on `"coupling ratio"`; a voltage beyond the quantity bounds → the
+/// errors of [`Volts::new`].
 ///
 /// ```
 /// use kickguard::{input::rail::neighbour_adc_error, Amps, Ohms};
-/// let e = neighbour_adc_error(Amps::new(2e-3).unwrap(), 1e-4, Ohms::new(10_000.0).unwrap()).unwrap();
+/// let e = neighbour_adc_error(Amps::new(2e-3)?, 1e-4, Ohms::new(10_000.0)?)?;
 /// assert!((e.value() - 2e-3).abs() < 1e-9); // 2 mA · 1e-4 · 10 kΩ = 2 mV
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 pub fn neighbour_adc_error(injected: Amps, coupling: f32, r_source: Ohms) -> Result<Volts, Error> {
-    let k = error::non_negative("coupling ratio", coupling)?;
+    let k = error::within("coupling ratio", coupling, 0.0, 1.0)?;
     Volts::new(injected.value().abs() * k * r_source.value())
 }

@@ -27,6 +27,7 @@ use crate::error::{self, Error, Reason};
 use crate::units::{Amps, Farads, Joules, Ohms, Seconds, Volts, Watts};
 
 /// Injection limits of a pin (both positive numbers; the negative limit is a magnitude).
+/// Fields are public for readable literals; every function that takes limits validates them.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct InjectionLimits {
@@ -34,6 +35,33 @@ pub struct InjectionLimits {
     pub positive: Amps,
     /// Largest current out of ground (magnitude).
     pub negative: Amps,
+}
+
+impl InjectionLimits {
+    /// Checks both limits: (positive, negative) in amperes.
+    ///
+    /// # Errors
+    /// A limit ≤ 0 → [`Reason::NotPositive`] on `"positive injection limit"` /
+    /// `"negative injection limit"`.
+    pub fn validate(&self) -> Result<(f32, f32), Error> {
+        Ok((
+            error::positive("positive injection limit", self.positive.value())?,
+            error::positive("negative injection limit", self.negative.value())?,
+        ))
+    }
+}
+
+/// A logic input's upper limit: the pin's leakage across the resistor must leave the lowest
+/// "high" signal above the pin's V_IH.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct LogicHigh {
+    /// Pin leakage current (magnitude).
+    pub leakage: Amps,
+    /// The lowest voltage the outside line gives for "high".
+    pub signal_high_min: Volts,
+    /// The pin's V_IH.
+    pub v_ih: Volts,
 }
 
 /// Limits on the largest resistor; `None` means the limit does not apply.
@@ -44,8 +72,8 @@ pub struct UpperLimits {
     pub adc_max_source: Option<Ohms>,
     /// Pin leakage current (magnitude) and the error voltage it may cause across R.
     pub leakage: Option<(Amps, Volts)>,
-    /// Pin leakage current, the lowest "high" signal voltage and the pin's V_IH.
-    pub logic_high: Option<(Amps, Volts, Volts)>,
+    /// Pin leakage against a logic input's threshold.
+    pub logic_high: Option<LogicHigh>,
     /// Sampling capacitor, sampling time, ADC resolution in bits, ADC internal resistance.
     pub sampling: Option<(Farads, Seconds, u8, Ohms)>,
 }
@@ -82,28 +110,33 @@ pub struct ResistorWindow {
 /// (transients included), with the pin at its hottest (`pin.temperature`) and lowest supply
 /// (`pin.vdd`).
 ///
+/// Work: constant (two diode drops).
+///
 /// # Errors
-/// A limit ≤ 0 → [`Reason::NotPositive`] on `"positive injection limit"` /
-/// `"negative injection limit"`; errors of the diode model.
+/// Errors of [`InjectionLimits::validate`], [`SignalRange::validate`] and [`Pin::validate`];
+/// errors of the diode model.
 ///
 /// ```
-/// use kickguard::input::{resistor::{min_resistor, InjectionLimits}, Pin, PinClamp, SignalRange};
-/// use kickguard::{diode::DiodeParams, Amps, Seconds, Temperature, Volts};
-/// let pin = Pin::new(Volts::new(3.0).unwrap(), PinClamp::DiodeLaw(DiodeParams::SILICON),
-///                    Temperature::from_celsius(85.0).unwrap()).unwrap();
-/// let rain = SignalRange::new(Volts::new(0.0).unwrap(), Volts::new(24.0).unwrap(),
-///     Volts::new(-2.0).unwrap(), Volts::new(30.0).unwrap(), Seconds::new(1e-3).unwrap()).unwrap();
-/// let lim = InjectionLimits { positive: Amps::new(5e-3).unwrap(), negative: Amps::new(5e-3).unwrap() };
-/// let r = min_resistor(&pin, &rain, lim).unwrap();
+/// use kickguard::input::{resistor::{min_resistor, InjectionLimits}, Pin, SignalRange};
+/// use kickguard::{diode::{Diode, DiodeParams}, Amps, Seconds, Temperature, Volts};
+/// let pin = Pin::new(Volts::new(3.0)?, Diode::Law(DiodeParams::SILICON),
+///                    Temperature::from_celsius(85.0)?)?;
+/// let rain = SignalRange { steady_min: Volts::new(0.0)?, steady_max: Volts::new(24.0)?,
+///     transient_min: Volts::new(-2.0)?, transient_max: Volts::new(30.0)?,
+///     transient_width: Seconds::new(1e-3)? };
+/// let lim = InjectionLimits { positive: Amps::new(5e-3)?, negative: Amps::new(5e-3)? };
+/// let r = min_resistor(&pin, &rain, lim)?;
 /// assert!(r.value() > 5000.0 && r.value() < 5500.0); // (30 − 3 − ~0.7 V)/5 mA
+/// # Ok::<(), kickguard::Error>(())
 /// ```
 pub fn min_resistor(
     pin: &Pin,
     signal: &SignalRange,
     limits: InjectionLimits,
 ) -> Result<Ohms, Error> {
-    let lp = error::positive("positive injection limit", limits.positive.value())?;
-    let ln = error::positive("negative injection limit", limits.negative.value())?;
+    let (lp, ln) = limits.validate()?;
+    signal.validate()?;
+    pin.validate()?;
     let over_pos = signal.transient_max.value() - pin.vdd.value() - pin.drop_at(limits.positive)?;
     let over_neg = -signal.transient_min.value() - pin.drop_at(limits.negative)?;
     let r = (over_pos / lp).max(over_neg / ln).max(0.0);
@@ -124,7 +157,10 @@ pub fn max_resistor(upper: &UpperLimits) -> Result<(Option<Ohms>, UpperLimit), E
         }
     };
     if let Some(r) = upper.adc_max_source {
-        take(r.value(), UpperLimit::AdcSource);
+        take(
+            error::positive("ADC source impedance", r.value())?,
+            UpperLimit::AdcSource,
+        );
     }
     if let Some((i_lk, v_err)) = upper.leakage {
         let i = error::positive("leakage current", i_lk.value().abs())?;
@@ -133,9 +169,9 @@ pub fn max_resistor(upper: &UpperLimits) -> Result<(Option<Ohms>, UpperLimit), E
             UpperLimit::Leakage,
         );
     }
-    if let Some((i_lk, v_high, v_ih)) = upper.logic_high {
-        let i = error::positive("leakage current", i_lk.value().abs())?;
-        let headroom = v_high.value() - v_ih.value();
+    if let Some(lh) = upper.logic_high {
+        let i = error::positive("leakage current", lh.leakage.value().abs())?;
+        let headroom = lh.signal_high_min.value() - lh.v_ih.value();
         if !(headroom > 0.0) {
             return Err(Error::new("logic high", Reason::Inconsistent));
         }
@@ -143,6 +179,9 @@ pub fn max_resistor(upper: &UpperLimits) -> Result<(Option<Ohms>, UpperLimit), E
     }
     if let Some((c, t_s, bits, r_in)) = upper.sampling {
         let ts = error::positive("sampling time", t_s.value())?;
+        if !(1..=32).contains(&bits) {
+            return Err(Error::new("ADC resolution", Reason::OutsideValidatedRange));
+        }
         // ln(2^(N+1)) = (N + 1)·ln 2: settle to half an LSB.
         let n_tau = (bits as f32 + 1.0) * core::f32::consts::LN_2;
         let r = ts / (c.value() * n_tau) - r_in.value();
@@ -187,7 +226,8 @@ pub fn resistor_window(
 /// from the clamp model.
 ///
 /// # Errors
-/// `r` = 0 → [`Reason::NotPositive`] on `"series resistor"`; errors of [`Pin::injection`].
+/// `r` = 0 → [`Reason::NotPositive`] on `"series resistor"`; errors of [`Pin::injection`]; a
+/// power beyond the quantity bounds → the errors of [`Watts::new`].
 pub fn resistor_power(pin: &Pin, v_signal: Volts, r: Ohms) -> Result<Watts, Error> {
     if !(r.value() > 0.0) {
         return Err(Error::new("series resistor", Reason::NotPositive));
@@ -201,8 +241,9 @@ pub fn resistor_power(pin: &Pin, v_signal: Volts, r: Ohms) -> Result<Watts, Erro
 /// held for the transient width): a rectangular pulse.
 ///
 /// # Errors
-/// As [`resistor_power`].
+/// As [`resistor_power`] and [`SignalRange::validate`].
 pub fn transient_energy(pin: &Pin, signal: &SignalRange, r: Ohms) -> Result<Joules, Error> {
+    signal.validate()?;
     let hi = resistor_power(pin, signal.transient_max, r)?.value();
     let lo = resistor_power(pin, signal.transient_min, r)?.value();
     Joules::new(hi.max(lo) * signal.transient_width.value())

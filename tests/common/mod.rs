@@ -20,17 +20,17 @@ pub fn vt64(t_k: f64) -> f64 {
 
 /// ln IS(T) from the SPICE2 temperature law (Nagel 1975).
 pub fn ln_is64(d: &DiodeParams, t_k: f64) -> f64 {
-    let n = d.n() as f64;
+    let n = d.n().value() as f64;
     let tnom = d.tnom().kelvin() as f64;
     let r = t_k / tnom;
     (d.is().value() as f64).ln()
-        + (d.xti() as f64 / n) * r.ln()
-        + (r - 1.0) * d.eg_ev() as f64 / (n * vt64(t_k))
+        + (d.xti().value() as f64 / n) * r.ln()
+        + (r - 1.0) * d.eg().value_ev() as f64 / (n * vt64(t_k))
 }
 
 /// Forward drop N·Vt·ln(1 + I/IS(T)) + I·RS (Shockley equation with RS, SPICE2).
 pub fn v64(d: &DiodeParams, i: f64, t_k: f64) -> f64 {
-    let n = d.n() as f64;
+    let n = d.n().value() as f64;
     let x = (i.ln() - ln_is64(d, t_k)).exp();
     n * vt64(t_k) * x.ln_1p() + i * d.rs().value() as f64
 }
