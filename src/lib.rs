@@ -56,6 +56,7 @@ mod math;
 pub mod physics;
 pub mod pwm;
 pub mod rating;
+pub mod slots;
 mod solve;
 pub mod timing;
 pub mod units;

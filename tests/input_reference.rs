@@ -353,7 +353,7 @@ fn board_check_totals_and_capacity() {
     let r = board.check().unwrap();
     // 4.7 kΩ against 66 V: (66 − 3 − 0.7)/4.7 kΩ ≈ 13 mA per pin: fails the per-pin limit.
     assert!(!r.pass);
-    assert!(!r.inputs[0].positive.pass);
+    assert!(!r.inputs.get(0).unwrap().positive.pass);
     let sum: f32 = r.inputs.iter().map(|x| x.transient_positive.value()).sum();
     assert!((r.total_positive.value() - sum).abs() < 1e-9);
     assert!(r.worst_margin < 0.0);

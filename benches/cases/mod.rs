@@ -2,12 +2,12 @@
 //! Every input passes through `black_box` so nothing is folded at compile time.
 #![allow(dead_code)]
 
-use kickguard::breakdown::Breakdown;
+use kickguard::breakdown::{Breakdown, BreakdownLaw};
 use kickguard::clamp::closed_form::ConstantClamp;
-use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
-use kickguard::{Amps, Henries, Ohms, Temperature, Volts};
+use kickguard::diode::{Diode, DiodeParams, Ideality};
+use kickguard::{Amps, Henries, Ohms, PerKelvin, Temperature, Volts};
 use std::hint::black_box as bb;
 use std::sync::LazyLock;
 
@@ -17,20 +17,33 @@ static CLAMP: LazyLock<ConstantClamp> = LazyLock::new(|| {
         Henries::new(0.35).unwrap(),
         Ohms::new(56.0).unwrap(),
         Volts::new(42.0).unwrap(),
+        Amps::new(0.43).unwrap(),
     )
     .unwrap()
 });
-static DIODE_OFF: LazyLock<SwitchOff> = LazyLock::new(|| {
-    let clamp = Clamp::FreewheelDiode(DiodeParams::SILICON);
-    SwitchOff::new(
-        &valve(),
-        &clamp,
-        Volts::new(24.0).unwrap(),
-        Amps::new(0.43).unwrap(),
-        t25(),
+fn prepared(clamp: Clamp) -> SwitchOff {
+    let op = Operating::uniform(Volts::new(24.0).unwrap(), Amps::new(0.43).unwrap(), t25());
+    SwitchOff::new(&valve(), &clamp, Side::Low, &op).unwrap()
+}
+static DIODE_OFF: LazyLock<SwitchOff> =
+    LazyLock::new(|| prepared(Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON))));
+/// The valve's diode + 18 V zener, the zener on SPICE's exact breakdown law.
+static ZENER_OFF: LazyLock<SwitchOff> = LazyLock::new(|| {
+    let zener = Breakdown::new(
+        BreakdownLaw::Spice {
+            bv: Volts::new(18.0).unwrap(),
+            ibv: Amps::new(1e-3).unwrap(),
+            nbv: Ideality::new(2.0).unwrap(),
+            rs: Ohms::new(2.0).unwrap(),
+        },
+        PerKelvin::ZERO,
         t25(),
     )
-    .unwrap()
+    .unwrap();
+    prepared(Clamp::ZenerDiode {
+        zener,
+        diode: Diode::Law(DiodeParams::SILICON),
+    })
 });
 
 /// A measured call: its name, the instruction target it must meet (None: report only), and the
@@ -56,14 +69,14 @@ fn valve() -> Coil {
 
 fn constant_time() -> f32 {
     bb(&*CLAMP)
-        .time_to(Amps::new(bb(0.43)).unwrap(), Amps::new(bb(0.0)).unwrap())
+        .time_to(Amps::new(bb(0.0)).unwrap())
         .unwrap()
         .value()
 }
 
 fn constant_energy() -> f32 {
     bb(&*CLAMP)
-        .decay(Amps::new(bb(0.43)).unwrap(), Amps::new(bb(0.0)).unwrap())
+        .decay_to(Amps::new(bb(0.0)).unwrap())
         .unwrap()
         .clamp_energy
         .value()
@@ -71,15 +84,12 @@ fn constant_energy() -> f32 {
 
 fn switch_off_avalanche() -> f32 {
     let clamp = Clamp::Avalanche(Breakdown::ideal(Volts::new(bb(66.0)).unwrap()).unwrap());
-    let off = SwitchOff::new(
-        &valve(),
-        &clamp,
+    let op = Operating::uniform(
         Volts::new(bb(24.0)).unwrap(),
         Amps::new(bb(0.43)).unwrap(),
         t25(),
-        t25(),
-    )
-    .unwrap();
+    );
+    let off = SwitchOff::new(&valve(), &clamp, Side::Low, &op).unwrap();
     off.decay_to(Amps::new(bb(0.0)).unwrap())
         .unwrap()
         .energy
@@ -101,6 +111,27 @@ fn diode_law_decay_deep() -> f32 {
         .unwrap()
         .time
         .value()
+}
+
+/// Times to 50, 10 and 1 % of the start current and every energy, in one pass.
+fn profile_of(off: &SwitchOff) -> f32 {
+    let i0 = 0.43f32;
+    let p = bb(off)
+        .profile(&[
+            Amps::new(bb(0.5 * i0)).unwrap(),
+            Amps::new(bb(0.1 * i0)).unwrap(),
+            Amps::new(bb(0.01 * i0)).unwrap(),
+        ])
+        .unwrap();
+    p.times[0].value() + p.times[1].value() + p.decay.energy.clamp_total.value()
+}
+
+fn profile_diode() -> f32 {
+    profile_of(&DIODE_OFF)
+}
+
+fn profile_zener() -> f32 {
+    profile_of(&ZENER_OFF)
 }
 
 fn forward_drop() -> f32 {
@@ -133,13 +164,9 @@ fn fast_forward_drop() -> f32 {
 
 #[cfg(feature = "micromath")]
 fn fast_constant_time() -> f32 {
-    kickguard::fast::constant_clamp_time(
-        bb(&*CLAMP),
-        Amps::new(bb(0.43)).unwrap(),
-        Amps::new(bb(0.0)).unwrap(),
-    )
-    .unwrap()
-    .value()
+    kickguard::fast::constant_clamp_time(bb(&*CLAMP), Amps::new(bb(0.0)).unwrap())
+        .unwrap()
+        .value()
 }
 
 /// Seven windows, built at compile time as a firmware would from generated constants.
@@ -198,7 +225,7 @@ pub const CASES: &[Case] = &[
         run: constant_time,
     },
     Case {
-        name: "closed-form clamp energy (ConstantClamp::decay)",
+        name: "closed-form clamp energy (ConstantClamp::decay_to)",
         target: Some(300),
         run: constant_energy,
     },
@@ -216,6 +243,16 @@ pub const CASES: &[Case] = &[
         name: "full diode-law decay_to, I0 to I0/1e5",
         target: Some(20_000),
         run: diode_law_decay_deep,
+    },
+    Case {
+        name: "one-pass profile, diode law: 3 times + energies",
+        target: Some(6_000),
+        run: profile_diode,
+    },
+    Case {
+        name: "one-pass profile, zener (SPICE) + diode: 3 times + energies",
+        target: Some(6_000),
+        run: profile_zener,
     },
     Case {
         name: "diode forward drop",

@@ -4,11 +4,11 @@
 // computes them at run time.
 
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
-use kickguard::clamp::{Clamp, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
+use kickguard::diode::{Diode, DiodeParams, Ideality};
 use kickguard::rating::ThermalPath;
-use kickguard::{Amps, Error, Henries, Ohms, Temperature, Volts, Watts};
+use kickguard::{Amps, Error, Henries, Ohms, PerKelvin, Temperature, Volts, Watts};
 
 fn bb(x: f32) -> f32 {
     core::hint::black_box(x)
@@ -36,26 +36,37 @@ fn valve(t: Temperature) -> Result<Coil, Error> {
 
 fn case_diode_decay_time() -> Result<f32, Error> {
     let t = Temperature::from_celsius(bb(55.0))?;
-    let off = SwitchOff::new(&valve(t)?, &Clamp::FreewheelDiode(DiodeParams::SILICON), Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t, t)?;
+    let op = Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t);
+    let off = SwitchOff::new(&valve(t)?, &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)), Side::Low, &op)?;
     Ok(off.time_to(Amps::new(bb(0.004))?)?.value())
 }
 
 fn case_zener_energy() -> Result<f32, Error> {
     let t = Temperature::from_celsius(bb(55.0))?;
     let z = Breakdown::new(
-        BreakdownLaw::Datasheet { vz: Volts::new(bb(18.0))?, izt: Amps::new(bb(0.01))?, rz: Ohms::new(bb(10.0))? },
-        bb(8e-4),
+        BreakdownLaw::Spice { bv: Volts::new(bb(18.0))?, ibv: Amps::new(bb(1e-3))?, nbv: Ideality::new(bb(2.0))?, rs: Ohms::new(bb(2.0))? },
+        PerKelvin::new(bb(8e-4))?,
         Temperature::from_celsius(bb(25.0))?,
     )?;
-    let clamp = Clamp::ZenerDiode { zener: z, diode: DiodeParams::SILICON };
-    let off = SwitchOff::new(&valve(t)?, &clamp, Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t, t)?;
+    let clamp = Clamp::ZenerDiode { zener: z, diode: Diode::Law(DiodeParams::SILICON) };
+    let op = Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t);
+    let off = SwitchOff::new(&valve(t)?, &clamp, Side::Low, &op)?;
     Ok(off.decay_to(Amps::new(bb(0.004))?)?.energy.zener.value())
+}
+
+fn case_profile_time() -> Result<f32, Error> {
+    let t = Temperature::from_celsius(bb(55.0))?;
+    let op = Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t);
+    let off = SwitchOff::new(&valve(t)?, &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)), Side::Low, &op)?;
+    let p = off.profile(&[Amps::new(bb(0.2))?, Amps::new(bb(0.04))?, Amps::new(bb(0.004))?])?;
+    Ok(p.times[1].value())
 }
 
 fn case_avalanche_closed_form() -> Result<f32, Error> {
     let t = Temperature::from_celsius(bb(25.0))?;
     let clamp = Clamp::Avalanche(Breakdown::ideal(Volts::new(bb(66.0))?)?);
-    let off = SwitchOff::new(&valve(t)?, &clamp, Volts::new(bb(24.0))?, Amps::new(bb(0.43))?, t, t)?;
+    let op = Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.43))?, t);
+    let off = SwitchOff::new(&valve(t)?, &clamp, Side::Low, &op)?;
     Ok(off.decay_to(Amps::new(bb(0.0))?)?.energy.switch.value())
 }
 
@@ -65,7 +76,7 @@ fn case_winding_temperature() -> Result<f32, Error> {
 }
 
 fn case_junction() -> Result<f32, Error> {
-    let path = ThermalPath::new(bb(250.0), Temperature::from_celsius(bb(55.0))?, Temperature::from_celsius(bb(150.0))?)?;
+    let path = ThermalPath { resistance_k_per_w: bb(250.0), ambient: Temperature::from_celsius(bb(55.0))?, junction_max: Temperature::from_celsius(bb(150.0))? };
     Ok(path.check(Watts::new(bb(0.2))?)?.junction.celsius())
 }
 
@@ -97,7 +108,7 @@ fn case_bad_input_is_an_error() -> Result<f32, Error> {
 }
 
 /// Number of cases.
-pub const CASES: usize = 10;
+pub const CASES: usize = 11;
 
 /// (name, result) of every case.
 pub fn cases() -> [(&'static str, Result<f32, Error>); CASES] {
@@ -106,7 +117,8 @@ pub fn cases() -> [(&'static str, Result<f32, Error>); CASES] {
         ("thermometer 575 mV 1 mA", case_thermometer()),
         ("schottky series current 24 V 4k7", case_series()),
         ("diode decay time 0.4 A to 4 mA", case_diode_decay_time()),
-        ("zener clamp energy", case_zener_energy()),
+        ("zener (SPICE law) clamp energy", case_zener_energy()),
+        ("one-pass profile, time to 10 %", case_profile_time()),
         ("avalanche energy closed form", case_avalanche_closed_form()),
         ("winding temperature 64.8 ohm", case_winding_temperature()),
         ("junction temperature 0.2 W", case_junction()),

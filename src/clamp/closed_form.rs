@@ -41,14 +41,12 @@ pub(crate) fn chi(x: f32) -> [f32; 3] {
         // One pass over k: (−x)ᵏ is shared by the three series.
         let mut out = [0.0f32; 3];
         let mut power = 1.0f32;
-        let mut k = 0u32;
-        while k < SERIES_TERMS {
+        for k in 0..SERIES_TERMS {
             let kf = k as f32;
             out[0] += power / (kf + 1.0);
             out[1] += power / (kf + 2.0);
             out[2] += power / (kf + 3.0);
             power *= -x;
-            k += 1;
         }
         out
     } else {

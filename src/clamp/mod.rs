@@ -29,7 +29,7 @@ use crate::coil::Coil;
 use crate::error::{Error, Reason};
 use crate::math;
 use crate::units::{Amps, Coulombs, Joules, Seconds, Volts};
-use path::{Integrals, LoopLaw, END_FRACTION, MAX_SPAN};
+use path::{Integrals, LoopLaw, END_FRACTION};
 use topology::{Absorber, Placement};
 
 /// Where each joule of a decay went, and where it came from.
@@ -130,6 +130,13 @@ pub struct SwitchOff {
     side: Side,
     i0: f32,
     v_supply: f32,
+    /// s = ln(i₀ − i_f), the start of every integration.
+    s0: f32,
+    /// The lowest current an integration may reach (the span limit, as a current).
+    lowest: f32,
+    /// Voltage across the switch and at the output, at switch-off (their extremes).
+    peak_switch: f32,
+    peak_output: f32,
 }
 
 impl SwitchOff {
@@ -164,14 +171,25 @@ impl SwitchOff {
     /// ```
     pub fn new(coil: &Coil, clamp: &Clamp, side: Side, op: &Operating) -> Result<Self, Error> {
         let built = topology::build(coil, clamp, op)?;
-        Ok(SwitchOff {
+        let i0 = op.start_current.value();
+        let mut off = SwitchOff {
             law: built.law,
             placement: built.placement,
             absorber: built.absorber,
             side,
-            i0: op.start_current.value(),
+            i0,
             v_supply: op.supply.value(),
-        })
+            s0: built.law.s_of(i0),
+            lowest: built.law.lowest_reachable(i0),
+            peak_switch: 0.0,
+            peak_output: 0.0,
+        };
+        off.peak_switch = off.switch_voltage_raw(i0);
+        off.peak_output = off.output_voltage_raw(i0);
+        if !(off.peak_switch.is_finite() && off.peak_output.is_finite()) {
+            return Err(Error::new("switch voltage", Reason::Overflow));
+        }
+        Ok(off)
     }
 
     /// The start current.
@@ -285,13 +303,13 @@ impl SwitchOff {
     /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn peak_switch_voltage(&self) -> Volts {
-        Volts::raw(self.switch_voltage_raw(self.i0))
+        Volts::raw(self.peak_switch)
     }
 
     /// The output's extreme voltage to ground, at switch-off (see
     /// [`SwitchOff::output_voltage_at`]).
     pub fn peak_output_voltage(&self) -> Volts {
-        Volts::raw(self.output_voltage_raw(self.i0))
+        Volts::raw(self.peak_output)
     }
 
     /// Clamp voltage across the coil terminals at the instant of switch-off (what opposes the
@@ -317,7 +335,7 @@ impl SwitchOff {
     /// [`Reason::Unreachable`] on `"threshold"`.
     pub fn time_above(&self, threshold: Volts) -> Result<Seconds, Error> {
         let th = threshold.value();
-        if !(th < self.switch_voltage_raw(self.i0)) {
+        if !(th < self.peak_switch) {
             return Err(Error::new("threshold", Reason::Unreachable));
         }
         let low = self.law.floor + (self.i0 - self.law.floor) * 1e-9;
@@ -332,7 +350,8 @@ impl SwitchOff {
         let f = |u: f32| self.switch_voltage_raw(math::exp(u)) - th;
         let u = crate::solve::illinois(f, math::ln(low), math::ln(self.i0), 1e-6, 60)
             .ok_or(Error::new("threshold", Reason::Unreachable))?;
-        let i = math::exp(u).clamp(low, self.i0 * (1.0 - 1e-6));
+        // Within [low, i₀·(1 − 1e-6)] (max/min, not `clamp`, which would panic on crossed bounds).
+        let i = math::exp(u).min(self.i0 * (1.0 - 1e-6)).max(low);
         self.time_to(Amps::new(i)?)
     }
 
@@ -353,7 +372,9 @@ impl SwitchOff {
         if i1 > 0.0 && !(i1 > self.law.floor) {
             return Err(Error::new("end current", Reason::Unreachable));
         }
-        if !(self.law.span(self.i0, i1) <= MAX_SPAN) {
+        // Within e⁴⁸ of the start (above the floor): the bound on the work. A decay to zero is
+        // integrated only to 1e-6 of the start, well inside it.
+        if !(self.law.is_affine() || i1 == 0.0 || i1 >= self.lowest) {
             return Err(Error::new("end current", Reason::OutsideValidatedRange));
         }
         Ok(i1)
@@ -374,7 +395,7 @@ impl SwitchOff {
     /// on `"end current"`.
     pub fn time_to(&self, i_end: Amps) -> Result<Seconds, Error> {
         let i1 = self.check_end(i_end)?;
-        Seconds::new(self.law.integrate(self.i0, i1).t)
+        Seconds::new(self.integrate_to(i1).t)
     }
 
     /// Time, charge and energy split of the decay down to `i_end`.
@@ -386,7 +407,7 @@ impl SwitchOff {
     /// As [`SwitchOff::time_to`].
     pub fn decay_to(&self, i_end: Amps) -> Result<Decay, Error> {
         let i1 = self.check_end(i_end)?;
-        self.decay_of(&self.law.integrate(self.i0, i1), i1)
+        self.decay_of(&self.integrate_to(i1), i1)
     }
 
     /// The whole decay to its end, with no end current to invent: to zero where the loop
@@ -450,15 +471,22 @@ impl SwitchOff {
         }
         let mut times = [Seconds::raw(0.0); N];
         let mut acc = Integrals::default();
-        let mut prev = self.i0;
+        let (mut prev, mut s_prev) = (self.i0, self.s0);
+        let affine = self.law.is_affine();
         for (slot, c) in times.iter_mut().zip(currents.iter()) {
             let i = self.check_end(*c)?;
             if !(i < prev) {
                 return Err(Error::new("profile currents", Reason::NotDecreasing));
             }
-            acc += self.law.integrate(prev, i);
+            // Each boundary's logarithm is taken once and shared by its two segments.
+            let s = if affine || i == 0.0 {
+                0.0
+            } else {
+                self.law.s_of(i)
+            };
+            acc += self.law.integrate_between(prev, s_prev, i, s);
             *slot = Seconds::new(acc.t)?;
-            prev = i;
+            (prev, s_prev) = (i, s);
         }
         Ok(DecayProfile {
             times,
@@ -466,6 +494,16 @@ impl SwitchOff {
             peak_switch_voltage: self.peak_switch_voltage(),
             peak_output_voltage: self.peak_output_voltage(),
         })
+    }
+
+    /// The integrals from the start current down to a checked `i1`.
+    fn integrate_to(&self, i1: f32) -> Integrals {
+        let s1 = if self.law.is_affine() || i1 == 0.0 {
+            0.0
+        } else {
+            self.law.s_of(i1)
+        };
+        self.law.integrate_between(self.i0, self.s0, i1, s1)
     }
 
     /// The decay figures from the integrals down to `i1`.

@@ -56,10 +56,11 @@ use crate::math;
 use crate::solve::illinois;
 use crate::varistor::PowerAt;
 
-/// Gauss–Legendre 4-point nodes on [−1, 1] (Abramowitz & Stegun, Table 25.4).
-const GL_X: [f32; 4] = [-0.861_136_3, -0.339_981_04, 0.339_981_04, 0.861_136_3];
-/// Gauss–Legendre 4-point weights (Abramowitz & Stegun, Table 25.4).
-const GL_W: [f32; 4] = [0.347_854_84, 0.652_145_5, 0.652_145_5, 0.347_854_84];
+/// Gauss–Legendre 4-point rule on [−1, 1], symmetric (Abramowitz & Stegun, Table 25.4): the
+/// outer nodes ±0.861136… with weight 0.347854…, the inner ones ±0.339981… with 0.652145….
+const GL_OUTER: (f32, f32) = (0.861_136_3, 0.347_854_84);
+/// The inner node and its weight (Abramowitz & Stegun, Table 25.4).
+const GL_INNER: (f32, f32) = (0.339_981_04, 0.652_145_5);
 /// Widest panel in s = ln(i − i_f).
 pub const PANEL_WIDTH: f32 = 1.0;
 /// Largest span of an integration in s, in e-folds of current (bounded work).
@@ -139,6 +140,9 @@ pub(crate) struct LoopLaw {
     /// Where a decay to zero hands over from the quadrature to the tail: [`TAIL_FRACTION`] of
     /// the start current.
     pub tail_at: f32,
+    /// 1/IS(T), when i/IS stays far inside f32's range up to the start current (so
+    /// ln(1 + i/IS) can be taken as ln_1p(i·(1/IS)), one exponential fewer per node); else 0.
+    pub inv_is: f32,
 }
 
 /// Time-domain integrals of a decay between two currents.
@@ -245,9 +249,31 @@ impl LoopLaw {
                 || (self.power.p > 0.0 && self.power.beta < 1.0 && self.c() >= 0.0))
     }
 
+    /// s = ln(i − i_f) of a current above the floor (internal; one logarithm).
+    #[inline]
+    pub(crate) fn s_of(&self, i: f32) -> f32 {
+        math::ln(i - self.floor)
+    }
+
     /// Integrals from `i_hi` down to `i_lo` (floor < i_lo < i_hi, or i_lo = 0 when the decay
     /// reaches zero). The caller checks the span against [`MAX_SPAN`].
     pub(crate) fn integrate(&self, i_hi: f32, i_lo: f32) -> Integrals {
+        if self.is_affine() {
+            return self.integrate_between(i_hi, 0.0, i_lo, 0.0);
+        }
+        let s_lo = if i_lo > 0.0 { self.s_of(i_lo) } else { 0.0 };
+        self.integrate_between(i_hi, self.s_of(i_hi), i_lo, s_lo)
+    }
+
+    /// [`LoopLaw::integrate`] with the s-values of the two ends already known (`s_lo` unused
+    /// when `i_lo` = 0, both unused on an affine path), so a profile takes each logarithm once.
+    pub(crate) fn integrate_between(
+        &self,
+        i_hi: f32,
+        s_hi: f32,
+        i_lo: f32,
+        s_lo: f32,
+    ) -> Integrals {
         if self.is_affine() {
             let [t, q, i2] = closed_form::integrals(self.l, self.c(), self.r_total(), i_hi, i_lo);
             return Integrals {
@@ -257,10 +283,8 @@ impl LoopLaw {
                 ..Integrals::default()
             };
         }
-        let f = self.floor;
-        let s_hi = math::ln(i_hi - f);
         if i_lo > 0.0 {
-            return self.quadrature(s_hi, math::ln(i_lo - f));
+            return self.quadrature(s_hi, s_lo);
         }
         let lower = i_hi.min(self.tail_at);
         let mut acc = if lower < i_hi {
@@ -272,17 +296,21 @@ impl LoopLaw {
         acc
     }
 
-    /// The s-span, in e-folds, of an integration from `i_hi` to `i_lo`.
-    pub(crate) fn span(&self, i_hi: f32, i_lo: f32) -> f32 {
-        if self.is_affine() {
-            return 0.0;
-        }
-        let lo = if i_lo > 0.0 {
-            i_lo - self.floor
+    /// The lowest current an integration from the start current `i0` may reach within
+    /// [`MAX_SPAN`] (a comparison replaces a logarithm in every check).
+    pub(crate) fn lowest_reachable(&self, i0: f32) -> f32 {
+        self.floor + (i0 - self.floor) * math::exp(-MAX_SPAN)
+    }
+
+    /// 1/IS(T) for the fast form of the diode term, or 0 where it could overflow (see
+    /// [`LoopLaw::inv_is`]).
+    pub(crate) fn inverse_is(&self, i0: f32) -> f32 {
+        let use_d = self.n_diodes > 0.0 && self.diode.a > 0.0;
+        if use_d && math::ln(i0) - self.diode.ln_is < 85.0 {
+            math::exp(-self.diode.ln_is)
         } else {
-            self.tail_at
-        };
-        math::ln(i_hi - self.floor) - math::ln(lo)
+            0.0
+        }
     }
 
     /// Number of panels for a span in s.
@@ -300,49 +328,52 @@ impl LoopLaw {
 
     /// Composite Gauss–Legendre over s from `s_lo` to `s_hi` (s_hi > s_lo).
     ///
-    /// Per node: one exponential for the current, one ln(1 + i/IS) for a diode law, one more
-    /// logarithm only when a steady current shifts the variable, one exponential for a power
-    /// law. The loop-invariant sums are taken once.
+    /// Per node: one ln(1 + i/IS) for a diode law, one logarithm only when a steady current
+    /// shifts the variable, one exponential for a power law. The current e = exp(s) at the four
+    /// nodes of a panel comes from one exponential at its middle times e^(±h·x/2) (the nodes are
+    /// symmetric: two exponentials per call), which adds at most two roundings to each node's
+    /// current. The loop-invariant sums are taken once.
     pub(crate) fn quadrature(&self, s_hi: f32, s_lo: f32) -> Integrals {
         let n = Self::panels(s_hi - s_lo);
         let h = (s_hi - s_lo) / n as f32;
+        let half = 0.5 * h;
+        // Node offsets ±h·x/2 and their exponentials, and the weights with L and h/2 folded in.
+        let (x_out, x_in) = (half * GL_OUTER.0, half * GL_INNER.0);
+        let (e_out, e_in) = (math::exp(x_out), math::exp(x_in));
+        let (w_out, w_in) = (self.l * half * GL_OUTER.1, self.l * half * GL_INNER.1);
+        let nodes = [
+            (-x_out, 1.0 / e_out, w_out),
+            (-x_in, 1.0 / e_in, w_in),
+            (x_in, e_in, w_in),
+            (x_out, e_out, w_out),
+        ];
         let f = self.floor;
         let c = self.c();
         let r = self.r_total();
         let use_d = self.n_diodes > 0.0 && self.diode.a > 0.0;
         let na = self.n_diodes * self.diode.a;
-        // ln(1 + i/IS) as ln_1p(i·(1/IS)) saves an exponential per node, where i/IS stays far
-        // below f32's range over the panel (ln i − ln IS < 85); else softplus(ln i − ln IS).
-        let u_hi = if f > 0.0 {
-            math::ln(f + math::exp(s_hi))
-        } else {
-            s_hi
-        };
-        let inv_is = if use_d && u_hi - self.diode.ln_is < 85.0 {
-            Some(math::exp(-self.diode.ln_is))
-        } else {
-            None
-        };
         let use_p = self.power.p > 0.0;
         let mut acc = Integrals::default();
         for p in 0..n {
             let mid = s_lo + (p as f32 + 0.5) * h;
-            for (x, w) in GL_X.iter().zip(GL_W.iter()) {
-                let s = mid + 0.5 * h * x;
-                let e = math::exp(s);
+            let e_mid = math::exp(mid);
+            for &(dx, scale, lw) in &nodes {
+                let e = e_mid * scale;
                 let i = f + e;
                 // ln i: s itself without a steady current (no logarithm per node).
-                let u = if f > 0.0 { math::ln(i) } else { s };
-                let d = match (use_d, inv_is) {
-                    (false, _) => 0.0,
-                    (true, Some(k)) => math::ln_1p(i * k),
-                    (true, None) => math::ln_1p_exp(u - self.diode.ln_is),
+                let u = if f > 0.0 { math::ln(i) } else { mid + dx };
+                let d = if !use_d {
+                    0.0
+                } else if self.inv_is > 0.0 {
+                    math::ln_1p(i * self.inv_is)
+                } else {
+                    math::ln_1p_exp(u - self.diode.ln_is)
                 };
                 let z = self.bd.log_part_u(u);
                 let pw = if use_p { self.power.at_u(u) } else { 0.0 };
                 let g = c + r * i + na * d + self.bd.a * z + pw;
-                // dt = L·(i − i_f)/g(i)·ds; the weight carries the panel's half-width.
-                let dt = self.l * e / g * (0.5 * h * w);
+                // dt = L·(i − i_f)/g(i)·ds; the weight carries L and the panel's half-width.
+                let dt = lw * e / g;
                 let dq = dt * i;
                 acc.t += dt;
                 acc.q += dq;

@@ -36,7 +36,8 @@ impl Writer<'_> {
                     switch_voltage: Volts::raw(self.off.switch_voltage_raw(i)),
                     output_voltage: Volts::raw(self.off.output_voltage_raw(i)),
                 };
-                self.n += 1;
+                // n < out.len() here (the slot existed): cannot saturate.
+                self.n = self.n.saturating_add(1);
                 true
             }
             None => false,

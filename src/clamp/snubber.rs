@@ -308,8 +308,10 @@ impl SnubberSwitchOff {
             return Err(Error::new("sample interval", Reason::NotPositive));
         }
         let mut n = 0usize;
-        for (k, slot) in out.iter_mut().enumerate() {
-            let ts = Seconds::raw(k as f32 * dt_s);
+        let mut k = 0.0f32;
+        for slot in out.iter_mut() {
+            let ts = Seconds::raw(k * dt_s);
+            k += 1.0;
             let v = self.switch_voltage_at(ts);
             *slot = Sample {
                 time: ts,
@@ -317,7 +319,8 @@ impl SnubberSwitchOff {
                 switch_voltage: v,
                 output_voltage: v,
             };
-            n += 1;
+            // At most out.len(): cannot saturate.
+            n = n.saturating_add(1);
         }
         Ok(n)
     }

@@ -262,6 +262,7 @@ pub(crate) fn build(coil: &Coil, clamp: &Clamp, op: &Operating) -> Result<Built,
         power: PowerAt::NONE,
         floor: 0.0,
         tail_at: i0 * TAIL_FRACTION,
+        inv_is: 0.0,
     };
     let mut placement = Placement::AcrossCoil;
     let mut absorber = Absorber::Zener;
@@ -331,6 +332,7 @@ pub(crate) fn build(coil: &Coil, clamp: &Clamp, op: &Operating) -> Result<Built,
         return Err(Error::new("breakdown voltage", Reason::CannotClamp));
     }
     law.tail_at = (i0 - law.floor) * TAIL_FRACTION;
+    law.inv_is = law.inverse_is(i0);
     Ok(Built {
         law,
         placement,

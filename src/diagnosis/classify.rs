@@ -99,10 +99,11 @@ impl Windows {
                     fault_lo[n_faults] = e.lo;
                     fault_span[n_faults] = width.saturating_add(1);
                     fault_condition[n_faults] = e.condition;
-                    n_faults += 1;
+                    // n_faults < MAX_WINDOWS here: cannot saturate.
+                    n_faults = n_faults.saturating_add(1);
                 }
             }
-            k += 1;
+            k = k.saturating_add(1);
         }
         Windows {
             healthy,
@@ -130,7 +131,8 @@ impl Windows {
             if let (Some(condition), Some(slot)) = (Condition::from_code(code), entries.get_mut(n))
             {
                 *slot = Entry { lo, hi, condition };
-                n += 1;
+                // n < MAX_WINDOWS here (the slot existed): cannot saturate.
+                n = n.saturating_add(1);
             }
         }
         Windows::from_entries(entries, n)
@@ -179,10 +181,12 @@ impl Windows {
         }
         let mut hits = 0u32;
         let mut found = 0usize;
-        for (k, (&lo, &span)) in self.fault_lo.iter().zip(self.fault_span.iter()).enumerate() {
+        for (k, (&lo, &span)) in
+            (0..MAX_WINDOWS).zip(self.fault_lo.iter().zip(self.fault_span.iter()))
+        {
             let inside = ticks.wrapping_sub(lo) < span;
-            // At most MAX_WINDOWS hits: the count cannot overflow.
-            hits += inside as u32;
+            // At most MAX_WINDOWS hits: the count never saturates.
+            hits = hits.saturating_add(inside as u32);
             found = if inside { k } else { found };
         }
         match (hits, self.fault_condition.get(found)) {

@@ -58,7 +58,7 @@ impl DecayFit {
     pub fn closest_clamp(&self, r: Ohms, candidates: &[Volts]) -> Result<Option<usize>, Error> {
         let vc = self.clamp_voltage(r)?.value();
         let mut best: Option<(usize, f32)> = None;
-        for (k, c) in candidates.iter().enumerate() {
+        for (k, c) in (0..candidates.len()).zip(candidates.iter()) {
             let d = (c.value() - vc).abs();
             if best.is_none_or(|(_, b)| d < b) {
                 best = Some((k, d));
@@ -99,22 +99,28 @@ pub fn fit_decay(samples: &[Amps], interval: Seconds) -> Result<DecayFit, Error>
     if samples.len() < 3 {
         return Err(Error::new("samples", Reason::TooFew));
     }
-    let pairs = samples.iter().zip(samples.iter().skip(1));
+    // Consecutive pairs (i[k], i[k+1]).
+    let pairs = || {
+        samples
+            .iter()
+            .zip(samples.iter().skip(1))
+            .map(|(a, b)| (a.value(), b.value()))
+    };
     let mut n = 0.0f32;
     let (mut mx, mut my) = (0.0f32, 0.0f32);
-    for (a, b) in pairs.clone() {
-        if !(b.value() < a.value()) {
+    for (a, b) in pairs() {
+        if !(b < a) {
             return Err(Error::new("samples", Reason::NotDecreasing));
         }
-        mx += a.value();
-        my += b.value();
+        mx += a;
+        my += b;
         n += 1.0;
     }
     mx /= n;
     my /= n;
     let (mut sxx, mut sxy) = (0.0f32, 0.0f32);
-    for (a, b) in pairs {
-        let (dx, dy) = (a.value() - mx, b.value() - my);
+    for (a, b) in pairs() {
+        let (dx, dy) = (a - mx, b - my);
         sxx += dx * dx;
         sxy += dx * dy;
     }

@@ -70,7 +70,8 @@ where
             return Err(MeasureError::Timeout);
         }
         delay.delay_ns(step_ns);
-        steps += 1;
+        // steps < timeout_steps ≤ u32::MAX here: cannot saturate.
+        steps = steps.saturating_add(1);
     }
     Ok(steps)
 }

@@ -45,23 +45,23 @@ impl<const N: usize> VerdictHistory<N> {
     pub fn push(&mut self, v: Verdict) {
         if let Some(slot) = self.slots.get_mut(self.next) {
             *slot = v;
-            // next < N here, so next + 1 cannot overflow.
-            self.next = if self.next + 1 == N { 0 } else { self.next + 1 };
-            if self.len < N {
-                self.len += 1;
-            }
+            // next < N ≤ usize::MAX, so the saturating steps never saturate.
+            let after = self.next.saturating_add(1);
+            self.next = if after == N { 0 } else { after };
+            self.len = self.len.saturating_add(1).min(N);
         }
     }
 
     /// The verdicts, newest first.
     fn newest_first(&self) -> impl Iterator<Item = Verdict> + '_ {
         // Slot of the k-th newest: next − 1 − k, modulo N (k < len ≤ N; nothing for N = 0).
+        // With next < N and back ≤ N, `next + N − back` is below 2·N: written as
+        // N − (back − next) so no intermediate exceeds N.
         (0..self.len).filter_map(move |k| {
-            let back = k + 1;
-            let idx = if self.next >= back {
-                self.next - back
-            } else {
-                self.next + N - back
+            let back = k.saturating_add(1);
+            let idx = match self.next.checked_sub(back) {
+                Some(i) => i,
+                None => N.saturating_sub(back - self.next),
             };
             self.slots.get(idx).copied()
         })
@@ -69,7 +69,15 @@ impl<const N: usize> VerdictHistory<N> {
 
     /// How many of the newest verdicts in a row equal `v`. Work: at most N comparisons.
     pub fn consecutive(&self, v: Verdict) -> usize {
-        self.newest_first().take_while(|x| *x == v).count()
+        let mut n = 0usize;
+        for x in self.newest_first() {
+            if x != v {
+                break;
+            }
+            // At most len ≤ N steps: cannot saturate.
+            n = n.saturating_add(1);
+        }
+        n
     }
 
     /// True when the newest `n` verdicts (n ≥ 1) are all `v`.

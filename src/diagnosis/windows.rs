@@ -280,7 +280,7 @@ impl Design {
     pub fn separations(
         &self,
         m: &Measurement,
-    ) -> Result<(TimeWindow, heapless::Vec<Separation, 5>), Error> {
+    ) -> Result<(TimeWindow, crate::slots::Slots<Separation, 5>), Error> {
         let healthy = self
             .window(Condition::Healthy, m)?
             .ok_or(Error::new("clamp", Reason::Inconsistent))?;
@@ -288,7 +288,7 @@ impl Design {
         // A healthy window that is a single instant (a comparator a healthy switch-off never
         // trips reads 0 at every corner) still has a finite relative gap: 1 ns floor.
         let width = (h_hi - h_lo).max(h_hi * 1e-6).max(1e-9);
-        let mut out = heapless::Vec::new();
+        let mut out = crate::slots::Slots::new();
         for cond in Condition::ALL.iter().skip(1) {
             if let Some(w) = self.window(*cond, m)? {
                 let gap = (w.min.value() - h_hi).max(h_lo - w.max.value());
@@ -328,7 +328,7 @@ impl Design {
             windows: [Windows::from_entries([Entry::EMPTY; MAX_WINDOWS], 0); B],
         };
         let mut lo = self.t_winding_min;
-        for (k, edge) in upper_edges.iter().enumerate() {
+        for (k, edge) in (0..B).zip(upper_edges.iter()) {
             if !(*edge > lo) {
                 return Err(Error::new("band edges", Reason::NotIncreasing));
             }
@@ -384,7 +384,8 @@ impl Design {
                         hi,
                         condition: cond,
                     };
-                    n += 1;
+                    // n < MAX_WINDOWS here (the slot existed): cannot saturate.
+                    n = n.saturating_add(1);
                 }
             }
         }

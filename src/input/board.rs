@@ -12,8 +12,8 @@ use super::resistor::InjectionLimits;
 use super::{Pin, SignalRange};
 use crate::error::{Error, Reason};
 use crate::rating::Verdict;
+use crate::slots::Slots;
 use crate::units::{Amps, Ohms};
-use heapless::Vec;
 
 /// One input of the board: a name for the report, its signal, its series resistor and the pin's
 /// injection limits.
@@ -53,7 +53,7 @@ pub struct InputResult {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct BoardReport<const N: usize> {
     /// Each input.
-    pub inputs: Vec<InputResult, N>,
+    pub inputs: Slots<InputResult, N>,
     /// Sum of the positive transient injections.
     pub total_positive: Amps,
     /// Sum of the negative transient injections (≤ 0).
@@ -78,7 +78,7 @@ pub struct Board<const N: usize> {
     pin: Pin,
     total: InjectionLimits,
     rail: Option<RailLoad>,
-    inputs: Vec<BoardInput, N>,
+    inputs: Slots<BoardInput, N>,
 }
 
 impl<const N: usize> Board<N> {
@@ -90,7 +90,7 @@ impl<const N: usize> Board<N> {
             pin,
             total,
             rail,
-            inputs: Vec::new(),
+            inputs: Slots::new(),
         }
     }
 
@@ -130,12 +130,12 @@ impl<const N: usize> Board<N> {
     /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn check(&self) -> Result<BoardReport<N>, Error> {
-        let mut inputs: Vec<InputResult, N> = Vec::new();
+        let mut inputs: Slots<InputResult, N> = Slots::new();
         let (mut tot_pos, mut tot_neg, mut steady_pos) = (0.0f32, 0.0f32, 0.0f32);
         let mut worst = f32::INFINITY;
         let mut pass = true;
         self.pin.validate()?;
-        for inp in &self.inputs {
+        for inp in self.inputs.iter() {
             inp.signal.validate()?;
             inp.limits.validate()?;
             let pos = self

@@ -59,7 +59,8 @@ impl Buf {
     fn push(&mut self, b: u8) -> fmt::Result {
         let slot = self.bytes.get_mut(self.len).ok_or(fmt::Error)?;
         *slot = b;
-        self.len += 1;
+        // len < 64 here (the slot existed): cannot saturate.
+        self.len = self.len.saturating_add(1);
         Ok(())
     }
 
@@ -93,10 +94,11 @@ fn write_digits(buf: &mut Buf, mut n: u64, min_digits: usize) -> fmt::Result {
     let mut k = 0usize;
     loop {
         if let Some(slot) = rev.get_mut(k) {
-            // n % 10 < 10: the cast cannot truncate.
-            *slot = b'0' + (n % 10) as u8;
+            // n % 10 < 10: the cast cannot truncate, and b'0' + 9 fits a byte.
+            *slot = b'0'.saturating_add((n % 10) as u8);
         }
-        k += 1;
+        // k ≤ 20: cannot saturate.
+        k = k.saturating_add(1);
         n /= 10;
         if (n == 0 && k >= min_digits) || k >= rev.len() {
             break;
@@ -145,7 +147,10 @@ fn plain(buf: &mut Buf, a: f64, precision: Option<usize>) -> fmt::Result {
             } else {
                 0
             };
-            let d = (AUTO_SIGNIFICANT - 1 - lead).clamp(0, MAX_DECIMALS as i32);
+            // lead is −3…5 here; saturating keeps any value in range.
+            let d = (AUTO_SIGNIFICANT - 1)
+                .saturating_sub(lead)
+                .clamp(0, MAX_DECIMALS as i32);
             (d as usize, true)
         }
     };
@@ -165,16 +170,16 @@ fn exponent(buf: &mut Buf, a: f64, precision: Option<usize>) -> fmt::Result {
     // log10 may be off by one ulp at exact powers of ten.
     if m >= 10.0 {
         m /= 10.0;
-        e += 1;
+        e = e.saturating_add(1);
     } else if m < 1.0 {
         m *= 10.0;
-        e -= 1;
+        e = e.saturating_sub(1);
     }
     let mut scaled = round_u64(m * pow10(decimals) as f64);
-    if scaled >= pow10(decimals + 1) {
-        // Rounded up to 10.000…: carry into the exponent.
+    if scaled >= pow10(decimals.saturating_add(1)) {
+        // Rounded up to 10.000…: carry into the exponent (|e| ≤ 46 for an f32).
         scaled = pow10(decimals);
-        e += 1;
+        e = e.saturating_add(1);
     }
     write_fixed(buf, scaled, decimals, trim)?;
     buf.push(b'e')?;
@@ -218,11 +223,12 @@ pub fn write_quantity(f: &mut fmt::Formatter<'_>, x: f32, unit: &str) -> fmt::Re
         buf.write_str(unit)?;
     }
     let text = buf.as_str()?;
-    let shown = text.chars().count();
+    // The text is at most 64 bytes, so at most 64 characters.
+    let shown = text.chars().fold(0usize, |n, _| n.saturating_add(1));
     let pad = f.width().map_or(0, |w| w.saturating_sub(shown));
     let (before, after) = match f.align() {
         Some(Alignment::Left) => (0, pad),
-        Some(Alignment::Center) => (pad / 2, pad - pad / 2),
+        Some(Alignment::Center) => (pad / 2, pad.saturating_sub(pad / 2)),
         Some(Alignment::Right) | None => (pad, 0),
     };
     let fill = f.fill();

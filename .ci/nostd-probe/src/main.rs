@@ -5,9 +5,9 @@
 #[cfg(feature = "leak-std")]
 extern crate std;
 
-use kickguard::clamp::{Clamp, Sample, SwitchOff};
+use kickguard::clamp::{Clamp, Operating, Sample, Side, SwitchOff};
 use kickguard::coil::Coil;
-use kickguard::diode::DiodeParams;
+use kickguard::diode::{Diode, DiodeParams};
 use kickguard::{Amps, Error, Henries, Ohms, Seconds, Temperature, Volts};
 
 #[panic_handler]
@@ -21,11 +21,9 @@ fn run() -> Result<f32, Error> {
     let coil = Coil::copper(Henries::new(0.35)?, Ohms::new(56.0)?, t)?;
     let off = SwitchOff::new(
         &coil,
-        &Clamp::FreewheelDiode(DiodeParams::SILICON),
-        Volts::new(24.0)?,
-        Amps::new(0.4)?,
-        t,
-        t,
+        &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        Side::Low,
+        &Operating::uniform(Volts::new(24.0)?, Amps::new(0.4)?, t),
     )?;
     let mut buf = [Sample::default(); 8];
     let n = off.sample(Seconds::new(1e-3)?, Amps::new(1e-3)?, &mut buf)?;

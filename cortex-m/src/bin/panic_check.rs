@@ -3,24 +3,41 @@
 //! Every public function is called with inputs hidden from the optimiser (`black_box`), so every
 //! branch stays live. The panic handler calls a symbol that does not exist: if any panic path is
 //! reachable, the release (LTO) link fails with "undefined symbol:
-//! __PANIC_PATH_IS_REACHABLE__see_linker_error". Keep the call list complete as the API grows.
+//! __PANIC_PATH_IS_REACHABLE__see_linker_error". `.ci/cross` links it twice: with the release
+//! profile, and with overflow checks and debug assertions on (the `checked` profile), so integer
+//! overflow is proved impossible too. Quantities and errors are also written with `{}` into a
+//! fixed buffer: the formatting path is covered. Keep the call list complete as the API grows.
 #![no_std]
 #![no_main]
 
+use core::fmt::Write as _;
 use core::hint::black_box as bb;
 use cortex_m_rt::entry;
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
-use kickguard::clamp::closed_form::ConstantClamp;
+use kickguard::clamp::closed_form::{single_pulse_avalanche_energy, ConstantClamp};
 use kickguard::clamp::sizing::ZenerSizing;
 use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
-use kickguard::clamp::{Clamp, Sample, SwitchOff};
+use kickguard::clamp::{ActiveClamp, Clamp, Operating, Sample, Side, SwitchOff, SwitchedFreewheel};
 use kickguard::coil::Coil;
-use kickguard::diode::{fit_three_points, fit_two_points, DiodeParams, DropPoint};
-use kickguard::rating::{average_power, single_pulse, ThermalPath, Verdict};
-use kickguard::{
-    Amps, Coulombs, Error, Farads, Henries, Joules, Ohms, Seconds, TempDelta, Temperature, Volts,
-    Watts,
+use kickguard::diode::{
+    fit_three_points, fit_two_points, BandGap, Diode, DiodeParams, DropPoint, Ideality, Xti,
 };
+use kickguard::rating::{average_power, single_pulse, PulseRating, ThermalPath};
+use kickguard::varistor::Varistor;
+use kickguard::{
+    Amps, Coulombs, Duty, Error, Farads, Henries, Hertz, Joules, Ohms, PerKelvin, Seconds,
+    TempDelta, Temperature, Volts, Watts,
+};
+
+/// A `fmt::Write` that counts bytes and discards them.
+struct Sink(u32);
+
+impl core::fmt::Write for Sink {
+    fn write_str(&mut self, s: &str) -> core::fmt::Result {
+        self.0 = self.0.saturating_add(s.len() as u32);
+        Ok(())
+    }
+}
 
 fn units() -> Result<(), Error> {
     let v = Volts::new(bb(1.0))?;
@@ -32,32 +49,47 @@ fn units() -> Result<(), Error> {
     let e = Joules::new(bb(7.0))?;
     let p = Watts::new(bb(8.0))?;
     let q = Coulombs::new(bb(9.0))?;
+    let f = Hertz::new(bb(50.0))?;
     let t = Temperature::from_kelvin(bb(300.0))?;
     let t2 = Temperature::from_celsius(bb(30.0))?;
     let d = TempDelta::from_kelvin(bb(5.0))?;
+    let duty = Duty::new(bb(0.5))?;
+    let pk = PerKelvin::percent_per_kelvin(bb(0.08))?;
     bb((
-        r * i,
-        v * i,
-        p * s,
-        i * s,
-        q * v,
-        r * c,
-        v + v,
-        i - i,
-        e + e,
-        p - p,
-        q + q,
+        (r * i)?,
+        (v * i)?,
+        (p * s)?,
+        (i * s)?,
+        (q * v)?,
+        (r * c)?,
+        (e * f)?,
+        (v + v)?,
+        (i - i)?,
+        (e + e)?,
+        (p - p)?,
+        (q + q)?,
     ));
     bb((
         l.time_constant(r)?,
-        l.stored_energy(i),
+        l.stored_energy(i)?,
         v.over(r)?,
+        f.period()?,
         t.offset(d)?,
         t2 - t,
         t.kelvin(),
         t2.celsius(),
+        Duty::percent(bb(40.0))?,
     ));
     bb(kickguard::physics::thermal_voltage(t));
+    // Formatting: the crate's own printer, into a sink that only counts (the proof is about
+    // kickguard's formatting path, not about any particular buffer type).
+    let mut out = Sink(0);
+    let _ = write!(out, "{} {:.3} {:>9.2} {}", v, i, r, t);
+    let _ = write!(out, "{} {} {} {}", duty, d, l, f);
+    let _ = write!(out, "{}", Error::new("x", kickguard::Reason::TooLarge));
+    let _ = kickguard::units::decimal::write_fixed_point(&mut out, bb(pk.value()), bb(3));
+    bb(out.0);
+    bb(kickguard::Reason::Overflow.code());
     Ok(())
 }
 
@@ -65,13 +97,13 @@ fn diode() -> Result<(), Error> {
     let t = Temperature::from_celsius(bb(25.0))?;
     let d = DiodeParams::new(
         Amps::new(bb(1e-14))?,
-        bb(1.0),
+        Ideality::new(bb(1.0))?,
         Ohms::new(bb(0.1))?,
-        bb(1.11),
-        bb(3.0),
+        BandGap::ev(bb(1.11))?,
+        Xti::new(bb(3.0))?,
         t,
     )?;
-    let d = bb(d.with_rs(Ohms::new(bb(0.2))?));
+    let d = bb(d.with_rs(Ohms::new(bb(0.2))?)?);
     let i = Amps::new(bb(0.01))?;
     bb(d.forward_drop(i, t)?);
     bb(d.saturation_current(t)?);
@@ -80,59 +112,103 @@ fn diode() -> Result<(), Error> {
     bb(d.series_current(Volts::new(bb(5.0))?, Ohms::new(bb(1e3))?, t)?);
     bb(d.forward_current(Volts::new(bb(0.6))?, t)?);
     bb(d.junction_temperature(i, Volts::new(bb(0.6))?)?);
-    bb((d.is(), d.n(), d.rs(), d.eg_ev(), d.xti(), d.tnom()));
+    bb((d.is(), d.n(), d.rs(), d.eg(), d.xti(), d.tnom()));
+    let fixed = Diode::FixedDrop(Volts::new(bb(0.7))?);
+    bb(fixed.forward_drop(i, t)?);
     let p = |a: f32, v: f32| DropPoint::new(bb(a), bb(v));
     bb(fit_two_points(
         [p(1e-3, 0.6)?, p(0.1, 0.8)?],
         t,
         Ohms::new(bb(0.0))?,
-        bb(1.11),
-        bb(3.0),
+        BandGap::SILICON,
+        Xti::PN,
     )?);
     bb(fit_three_points(
         [p(1e-3, 0.6)?, p(0.1, 0.8)?, p(1.0, 1.0)?],
         t,
-        bb(1.11),
-        bb(3.0),
+        BandGap::SCHOTTKY,
+        Xti::SCHOTTKY,
     )?);
     bb(d.with_eg_from_point(p(1e-3, 0.55)?, Temperature::from_celsius(bb(60.0))?)?);
     bb(d.with_eg_from_tempco(i, bb(-2e-3))?);
     Ok(())
 }
 
+fn breakdown_law() -> Result<BreakdownLaw, Error> {
+    Ok(match bb(2u8) {
+        0 => BreakdownLaw::Spice {
+            bv: Volts::new(bb(40.0))?,
+            ibv: Amps::new(bb(1e-3))?,
+            nbv: Ideality::new(bb(2.0))?,
+            rs: Ohms::new(bb(1.0))?,
+        },
+        1 => BreakdownLaw::FlooredAtBv {
+            bv: Volts::new(bb(40.0))?,
+            ibv: Amps::new(bb(1e-3))?,
+            nbv: Ideality::new(bb(2.0))?,
+            rs: Ohms::new(bb(1.0))?,
+        },
+        _ => BreakdownLaw::Datasheet {
+            vz: Volts::new(bb(18.0))?,
+            izt: Amps::new(bb(0.01))?,
+            rz: Ohms::new(bb(10.0))?,
+        },
+    })
+}
+
 fn coil_and_clamps() -> Result<(), Error> {
     let t = Temperature::from_celsius(bb(25.0))?;
     let coil = Coil::copper(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?, t)?;
-    let coil2 = Coil::new(Henries::new(bb(0.9))?, Ohms::new(bb(160.0))?, t, bb(0.0))?;
+    let coil2 = Coil::new(
+        Henries::new(bb(0.9))?,
+        Ohms::new(bb(160.0))?,
+        t,
+        PerKelvin::ZERO,
+    )?;
+    let coil3 =
+        Coil::fixed(Henries::new(bb(0.1))?, Ohms::new(bb(20.0))?)?.scaled(bb(1.1), bb(0.9))?;
     bb((
         coil.inductance(),
         coil.resistance_ref(),
         coil.reference_temperature(),
-        coil.alpha_per_k(),
+        coil.alpha(),
+        coil3.resistance(t)?,
     ));
     bb(coil.resistance(t)?);
     bb(coil.winding_temperature(Ohms::new(bb(60.0))?)?);
     bb(coil.steady_current(Volts::new(bb(24.0))?, t)?);
-    bb(coil.stored_energy(Amps::new(bb(0.4))?));
-    bb(coil2.pull_in_margin(Volts::new(bb(9.0))?, Volts::new(bb(11.0))?, t)?);
-    let law = if bb(true) {
-        BreakdownLaw::Spice {
-            bv: Volts::new(bb(40.0))?,
-            ibv: Amps::new(bb(1e-3))?,
-            nbv: bb(2.0),
-            rs: Ohms::new(bb(1.0))?,
-        }
-    } else {
-        BreakdownLaw::Datasheet {
-            vz: Volts::new(bb(18.0))?,
-            izt: Amps::new(bb(0.01))?,
-            rz: Ohms::new(bb(10.0))?,
-        }
-    };
-    let z = Breakdown::new(law, bb(1e-3), t)?;
-    bb((z.law(), z.tc_per_k(), z.voltage(Amps::new(bb(0.1))?, t)?));
+    bb(coil.stored_energy(Amps::new(bb(0.4))?)?);
+    let i_op = coil2.magnetic_current(Volts::new(bb(9.0))?)?;
+    bb(coil2.pull_in_margin(i_op, Volts::new(bb(11.0))?, t)?);
+    let z = Breakdown::new(breakdown_law()?, PerKelvin::new(bb(1e-3))?, t)?;
+    let z = bb(z.scaled(bb(1.05))?);
+    bb((
+        z.law(),
+        z.tc(),
+        z.nominal_voltage(),
+        z.voltage(Amps::new(bb(0.1))?, t)?,
+    ));
     let ideal = Breakdown::ideal(Volts::new(bb(60.0))?)?;
-    let d = DiodeParams::SCHOTTKY;
+    let mov = Varistor::new(
+        Volts::new(bb(39.0))?,
+        Amps::new(bb(1e-3))?,
+        bb(30.0),
+        PerKelvin::ZERO,
+        t,
+    )?;
+    bb((mov.alpha(), mov.voltage(Amps::new(bb(0.1))?, t)?));
+    let d = if bb(true) {
+        Diode::Law(DiodeParams::SCHOTTKY)
+    } else {
+        Diode::FixedDrop(Volts::new(bb(0.4))?)
+    };
+    let sw = SwitchedFreewheel {
+        diode: d,
+        zener: z,
+        bypass: Ohms::new(bb(0.5))?,
+    };
+    bb(sw.hold_freewheel(Amps::new(bb(0.15))?, t)?);
+    bb(sw.final_turn_off());
     let clamps = [
         Clamp::FreewheelDiode(d),
         Clamp::ResistorDiode {
@@ -140,30 +216,67 @@ fn coil_and_clamps() -> Result<(), Error> {
             diode: d,
         },
         Clamp::ZenerDiode { zener: z, diode: d },
-        Clamp::SwitchZener(z),
+        Clamp::TvsAcrossCoil(z),
+        Clamp::Varistor(mov),
+        Clamp::AcrossSwitch(z),
         Clamp::Avalanche(ideal),
+        Clamp::ActiveClamp(ActiveClamp {
+            zener: z,
+            zener_current: Amps::new(bb(1e-3))?,
+            gate_threshold: Volts::new(bb(3.0))?,
+            transconductance_a_per_v2: bb(Some(5.0)),
+        }),
         Clamp::HBridgeFastDecay(d),
+        Clamp::SwitchedFreewheel(sw),
     ];
     let mut buf = [Sample::default(); 4];
+    let op = Operating {
+        supply: Volts::new(bb(24.0))?,
+        start_current: Amps::new(bb(0.4))?,
+        winding: t,
+        diodes: t,
+        breakdown: Temperature::from_celsius(bb(60.0))?,
+    };
+    let side = if bb(true) { Side::Low } else { Side::High };
     for c in bb(clamps).iter() {
-        let off = SwitchOff::new(&coil, c, Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t, t)?;
+        let off = SwitchOff::new(&coil, c, side, &op)?;
         bb((
             off.start_current(),
+            off.supply(),
+            off.side(),
             off.is_closed_form(),
+            off.reaches_zero(),
+            off.steady_current(),
+            off.end_current(),
             off.peak_switch_voltage(),
+            off.peak_output_voltage(),
             off.clamp_voltage_at_start(),
         ));
-        bb(off.time_to(Amps::new(bb(0.01))?)?);
-        bb(off.decay_to(Amps::new(bb(0.01))?)?);
-        bb(off.sample(Seconds::new(bb(1e-3))?, Amps::new(bb(0.01))?, &mut buf)?);
+        let i1 = Amps::new(bb(0.01))?;
+        bb(off.switch_voltage_at(i1)?);
+        bb(off.output_voltage_at(i1)?);
+        bb(off.time_above(Volts::new(bb(30.0))?)?);
+        bb(off.time_to(i1)?);
+        bb(off.decay_to(i1)?);
+        bb(off.decay_to_end()?);
+        bb(off.profile(&[Amps::new(bb(0.2))?, i1])?);
+        bb(off.sample(Seconds::new(bb(1e-3))?, i1, &mut buf)?);
+        bb(off.sample(Seconds::new(bb(1e-3))?, Amps::new(bb(0.0))?, &mut buf)?);
     }
     let cc = ConstantClamp::new(
         Henries::new(bb(0.35))?,
         Ohms::new(bb(56.0))?,
         Volts::new(bb(36.0))?,
+        Amps::new(bb(0.4))?,
     )?;
-    bb(cc.time_to(Amps::new(bb(0.4))?, Amps::new(bb(0.0))?)?);
-    bb(cc.decay(Amps::new(bb(0.4))?, Amps::new(bb(0.0))?)?);
+    bb(cc.time_to(Amps::new(bb(0.0))?)?);
+    bb(cc.decay_to(Amps::new(bb(0.0))?)?);
+    bb(single_pulse_avalanche_energy(
+        Henries::new(bb(0.35))?,
+        Amps::new(bb(0.4))?,
+        Volts::new(bb(66.0))?,
+        Volts::new(bb(24.0))?,
+    )?);
     let s = SnubberSwitchOff::new(
         &coil,
         &RcSnubber {
@@ -178,7 +291,7 @@ fn coil_and_clamps() -> Result<(), Error> {
     bb(s.settle_time(Amps::new(bb(1e-3))?)?);
     bb(s.current_at(Seconds::new(bb(1e-3))?));
     bb(s.switch_voltage_at(Seconds::new(bb(1e-3))?));
-    bb(s.sample(Seconds::new(bb(1e-3))?, Seconds::new(bb(1e-2))?, &mut buf)?);
+    bb(s.sample(Seconds::new(bb(1e-3))?, &mut buf)?);
     let sizing = ZenerSizing {
         coil,
         diode: d,
@@ -189,7 +302,7 @@ fn coil_and_clamps() -> Result<(), Error> {
         t_coil: t,
         t_clamp: t,
         switch_rating: Volts::new(bb(60.0))?,
-        rating_fraction: bb(0.8),
+        rating_fraction: Duty::new(bb(0.8))?,
         release_current: Amps::new(bb(0.05))?,
         max_release_time: Seconds::new(bb(5e-3))?,
     };
@@ -200,13 +313,17 @@ fn coil_and_clamps() -> Result<(), Error> {
 fn ratings() -> Result<(), Error> {
     let t = Temperature::from_celsius(bb(55.0))?;
     let e = Joules::new(bb(0.02))?;
-    bb(single_pulse(e, Joules::new(bb(0.1))?)?);
-    bb(average_power(e, bb(5.0))?);
-    bb(Verdict::of(bb(1.0), bb(2.0), "x")?);
-    let path = ThermalPath::new(bb(200.0), t, Temperature::from_celsius(bb(150.0))?)?;
-    bb(path.max_power());
+    bb(single_pulse(e, PulseRating::new(Joules::new(bb(0.1))?)?)?);
+    bb(PulseRating::new(e)?.energy());
+    bb(average_power(e, Hertz::new(bb(5.0))?)?);
+    let path = ThermalPath {
+        resistance_k_per_w: bb(200.0),
+        ambient: t,
+        junction_max: Temperature::from_celsius(bb(150.0))?,
+    };
+    bb(path.max_power()?);
     bb(path.check(Watts::new(bb(0.1))?)?);
-    bb(path.max_repetition_rate_hz(e, Seconds::new(bb(0.01))?)?);
+    bb(path.max_repetition_rate(e, Seconds::new(bb(0.01))?)?);
     Ok(())
 }
 
@@ -222,10 +339,10 @@ fn fast() -> Result<(), Error> {
         Henries::new(bb(0.35))?,
         Ohms::new(bb(56.0))?,
         Volts::new(bb(36.0))?,
+        Amps::new(bb(0.4))?,
     )?;
     bb(kickguard::fast::constant_clamp_time(
         &cc,
-        Amps::new(bb(0.4))?,
         Amps::new(bb(0.0))?,
     )?);
     Ok(())
@@ -233,40 +350,37 @@ fn fast() -> Result<(), Error> {
 
 fn timing_and_pwm() -> Result<(), Error> {
     use kickguard::pwm::{
-        compare_value, hold_current_drift, hold_duty, hysteretic, time_to_current, Freewheel,
-        HoldOperatingPoint,
+        compare_value, hold_current_drift, hold_duty, hysteretic, mean_hold_current,
+        time_to_current, Freewheel, HoldOperatingPoint,
     };
     use kickguard::timing::{
-        max_repetition_rate_hz, release_current, release_time, reversal_wait, to_ticks,
+        max_repetition_rate, release_current, release_time, reversal_wait, to_ticks, to_ticks_floor,
     };
     let t = Temperature::from_celsius(bb(25.0))?;
     let coil = Coil::copper(Henries::new(bb(0.9))?, Ohms::new(bb(160.0))?, t)?;
     let v = Volts::new(bb(12.0))?;
     let off = SwitchOff::new(
         &coil,
-        &Clamp::FreewheelDiode(DiodeParams::SILICON),
-        v,
-        Amps::new(bb(0.075))?,
-        t,
-        t,
+        &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        Side::Low,
+        &Operating::uniform(v, Amps::new(bb(0.075))?, t),
     )?;
-    let i_rel = release_current(&coil, Volts::new(bb(1.2))?, t)?;
+    let i_rel = release_current(&coil, Volts::new(bb(1.2))?)?;
     let r = release_time(&off, i_rel, Seconds::new(bb(8e-3))?)?;
     bb(reversal_wait(&off, i_rel)?);
-    bb(max_repetition_rate_hz(
+    bb(max_repetition_rate(
         r.total,
-        Seconds::new(bb(0.1))?,
-        bb(0.01),
-        bb(0.5),
+        Joules::new(bb(0.01))?,
+        Watts::new(bb(0.5))?,
     )?);
-    bb(to_ticks(r.total, bb(1000.0))?);
-    bb(time_to_current(&coil, v, Amps::new(bb(0.05))?, t)?);
-    let fw = Freewheel {
-        diode_drop: Volts::new(bb(0.8))?,
-        zener: Volts::new(bb(0.0))?,
-    };
-    let d = hold_duty(&coil, v, Amps::new(bb(0.03))?, t, fw)?;
-    let p = HoldOperatingPoint::new(&coil, v, t, fw, bb(20_000.0), d)?;
+    let tick = Hertz::new(bb(1000.0))?;
+    bb((to_ticks(r.total, tick)?, to_ticks_floor(r.total, tick)?));
+    bb(time_to_current(&coil, v, t, Amps::new(bb(0.05))?)?);
+    let fw = Freewheel::new(Volts::new(bb(0.8))?, Volts::new(bb(0.0))?)?;
+    let fw2 = Freewheel::diode(Volts::new(bb(0.7))?)?;
+    bb((fw.diode_drop(), fw.zener()));
+    let d = hold_duty(&coil, v, t, &fw, Amps::new(bb(0.03))?)?;
+    let p = HoldOperatingPoint::new(&coil, v, t, &fw, Hertz::new(bb(20_000.0))?, d)?;
     bb((
         p.mean_current()?,
         p.ripple()?,
@@ -275,20 +389,19 @@ fn timing_and_pwm() -> Result<(), Error> {
         p.compare_value(bb(1600))?,
     ));
     bb(compare_value(d, bb(1600))?);
+    bb(mean_hold_current(&coil, v, t, &fw, d)?);
     bb(hold_current_drift(
         &coil,
         v,
+        (t, fw),
+        (Temperature::from_celsius(bb(80.0))?, fw2),
         d,
-        fw,
-        fw,
-        t,
-        Temperature::from_celsius(bb(80.0))?,
     )?);
     bb(hysteretic(
         &coil,
         v,
         t,
-        fw,
+        &fw,
         Amps::new(bb(0.02))?,
         Amps::new(bb(0.03))?,
     )?);
@@ -298,34 +411,38 @@ fn timing_and_pwm() -> Result<(), Error> {
 fn input_protection() -> Result<(), Error> {
     use kickguard::input::board::{Board, BoardInput};
     use kickguard::input::rail::{
-        neighbour_adc_error, rail_off_check, rail_on_check, shared_clamp,
+        neighbour_adc_error, rail_off_check, shared_clamp, RailLoad, UnpoweredRail,
     };
     use kickguard::input::resistor::{
         max_resistor, min_resistor, resistor_power, resistor_window, transient_energy,
-        InjectionLimits, UpperLimits,
+        InjectionLimits, LogicHigh, UpperLimits,
     };
-    use kickguard::input::{Pin, PinClamp, SignalRange};
+    use kickguard::input::{Pin, SignalRange};
     let t = Temperature::from_celsius(bb(85.0))?;
     let clamp = if bb(true) {
-        PinClamp::DiodeLaw(DiodeParams::SILICON)
+        Diode::Law(DiodeParams::SILICON)
     } else {
-        PinClamp::FixedDrop(Volts::new(bb(0.3))?)
+        Diode::FixedDrop(Volts::new(bb(0.3))?)
     };
     let pin = Pin::new(Volts::new(bb(3.0))?, clamp, t)?;
     bb(Pin::limiter_to_ground(clamp, t)?.injection(Volts::new(bb(5.0))?, Ohms::new(bb(1e3))?)?);
     let r = Ohms::new(bb(10_000.0))?;
-    let s = SignalRange::new(
-        Volts::new(bb(0.0))?,
-        Volts::new(bb(24.0))?,
-        Volts::new(bb(-2.0))?,
-        Volts::new(bb(30.0))?,
-        Seconds::new(bb(1e-3))?,
+    let s = SignalRange {
+        steady_min: Volts::new(bb(0.0))?,
+        steady_max: Volts::new(bb(24.0))?,
+        transient_min: Volts::new(bb(-2.0))?,
+        transient_max: Volts::new(bb(30.0))?,
+        transient_width: Seconds::new(bb(1e-3))?,
+    };
+    s.validate()?;
+    let valve = Coil::copper(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?, t)?;
+    let open = SwitchOff::new(
+        &valve,
+        &Clamp::Avalanche(Breakdown::ideal(Volts::new(bb(66.0))?)?),
+        Side::Low,
+        &Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.4))?, t),
     )?;
-    let d = SignalRange::drain_sense_open_diode(
-        Volts::new(bb(24.0))?,
-        Volts::new(bb(66.0))?,
-        Seconds::new(bb(3e-3))?,
-    )?;
+    let d = SignalRange::output_sense(&open)?;
     bb((
         pin.injection(s.transient_max, r)?,
         pin.pin_voltage(s.transient_min, r)?,
@@ -334,14 +451,15 @@ fn input_protection() -> Result<(), Error> {
         positive: Amps::new(bb(5e-3))?,
         negative: Amps::new(bb(5e-3))?,
     };
+    bb(lim.validate()?);
     let up = UpperLimits {
         adc_max_source: Some(Ohms::new(bb(50_000.0))?),
         leakage: Some((Amps::new(bb(1e-6))?, Volts::new(bb(0.01))?)),
-        logic_high: Some((
-            Amps::new(bb(1e-6))?,
-            Volts::new(bb(10.0))?,
-            Volts::new(bb(2.0))?,
-        )),
+        logic_high: Some(LogicHigh {
+            leakage: Amps::new(bb(1e-6))?,
+            signal_high_min: Volts::new(bb(10.0))?,
+            v_ih: Volts::new(bb(2.0))?,
+        }),
         sampling: Some((
             Farads::new(bb(1e-11))?,
             Seconds::new(bb(1e-6))?,
@@ -358,24 +476,25 @@ fn input_protection() -> Result<(), Error> {
         resistor_power(&pin, s.transient_max, r)?,
         transient_energy(&pin, &d, r)?,
     ));
-    bb(rail_on_check(Amps::new(bb(6e-3))?, Amps::new(bb(8e-3))?)?);
+    let rail = RailLoad::new(Amps::new(bb(8e-3))?)?;
+    bb((rail.min_load(), rail.check(Amps::new(bb(6e-3))?)?));
     bb(rail_off_check(
         &pin,
         s.steady_max,
         r,
-        Ohms::new(bb(1000.0))?,
-        Volts::new(bb(0.5))?,
+        &UnpoweredRail {
+            load: Ohms::new(bb(1000.0))?,
+            allowed: Volts::new(bb(0.5))?,
+        },
     )?);
     bb(shared_clamp(
-        pin.vdd,
-        &DiodeParams::SILICON,
+        &pin,
         &DiodeParams::SCHOTTKY,
-        t,
         s.transient_max,
         r,
     )?);
     bb(neighbour_adc_error(Amps::new(bb(2e-3))?, bb(1e-4), r)?);
-    let mut board: Board<2> = Board::new(pin, lim, Some(Amps::new(bb(8e-3))?));
+    let mut board: Board<2> = Board::new(pin, lim, Some(rail));
     let _ = bb(board.add(BoardInput {
         name: "a",
         signal: s,
@@ -405,7 +524,7 @@ fn diagnosis() -> Result<(), Error> {
         t_winding_fault_max: Temperature::from_celsius(bb(130.0))?,
         t_clamp_min: Temperature::from_celsius(bb(-10.0))?,
         t_clamp_max: Temperature::from_celsius(bb(70.0))?,
-        clamp: Clamp::FreewheelDiode(DiodeParams::SILICON),
+        clamp: Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
         switch_avalanche: Breakdown::ideal(Volts::new(bb(60.0))?)?,
         shorted_turns: bb(0.2),
     };
@@ -419,17 +538,15 @@ fn diagnosis() -> Result<(), Error> {
             threshold: Volts::new(bb(14.0))?,
         }
     };
+    let tick = Hertz::new(bb(100_000.0))?;
+    let guard = Duty::new(bb(0.02))?;
     bb(design.window(Condition::Healthy, &m)?);
     bb(design.separations(&m)?);
-    let w = design.tick_windows(&m, bb(100_000.0), bb(0.02))?;
-    bb(design.banded_tick_windows(
-        &m,
-        bb(100_000.0),
-        bb(0.02),
-        [Temperature::from_celsius(bb(30.0))?],
-    )?);
+    let w = design.tick_windows(&m, tick, guard)?;
+    bb(design.banded_tick_windows(&m, tick, guard, [Temperature::from_celsius(bb(30.0))?])?);
     let v = w.classify(bb(1234));
-    bb(w.entries().count());
+    bb(w.entries()
+        .fold(0u32, |n, e| n.saturating_add(e.hi.saturating_sub(e.lo))));
     let mut e = [Entry::EMPTY; MAX_WINDOWS];
     e[0] = Entry {
         lo: bb(10),
@@ -437,6 +554,8 @@ fn diagnosis() -> Result<(), Error> {
         condition: Condition::Healthy,
     };
     let w2 = Windows::from_entries(e, bb(1));
+    let rows = bb([[u32::MAX, u32::MAX, 1], [0, u32::MAX, 2]]);
+    bb(Windows::from_rows(&rows).classify(bb(u32::MAX)));
     let banded = BandedWindows {
         upper_edges_deci_c: [bb(250), bb(600)],
         windows: [w, w2],
@@ -446,14 +565,21 @@ fn diagnosis() -> Result<(), Error> {
     h.push(v);
     bb((h.consecutive(v), h.confirmed(v, bb(3)), h.latest()));
     h.clear();
-    let mut buf: SampleBuffer<8> = SampleBuffer::new();
-    for k in 0..8 {
-        let _ = buf.push(Amps::new(bb(0.4 - 0.04 * k as f32))?);
+    let mut none: VerdictHistory<0> = VerdictHistory::new();
+    none.push(v);
+    bb(none.latest());
+    let mut buf = [Amps::new(0.0)?; 8];
+    let mut x = 0.4f32;
+    for slot in buf.iter_mut() {
+        *slot = Amps::new(bb(x))?;
+        x -= 0.04;
     }
+    let _: Option<SampleBuffer<8>> = None;
     let f = fit_decay(&buf, Seconds::new(bb(1e-3))?)?;
     bb((
         f.inductance(Ohms::new(bb(100.0))?)?,
         f.clamp_voltage(Ohms::new(bb(100.0))?)?,
+        f.closest_clamp(Ohms::new(bb(100.0))?, &[Volts::new(bb(0.8))?])?,
     ));
     bb(winding_temperature_from_current(
         &coil,
@@ -478,6 +604,10 @@ fn main() -> ! {
     {
         let arr = bb([1u32, 2, 3]);
         bb(arr[bb(7usize)]); // reachable bounds-check panic: the link must fail
+    }
+    #[cfg(feature = "force-overflow")]
+    {
+        bb(bb(u32::MAX) + bb(1u32)); // reachable only with overflow checks: the checked link must fail
     }
     cortex_m_semihosting::debug::exit(cortex_m_semihosting::debug::EXIT_SUCCESS);
     loop {}

@@ -75,11 +75,16 @@ fn run() -> Result<f32, Error> {
         coil.inductance(),
         coil.resistance(t)?,
         Volts::new(bb(42.0))?,
+        Amps::new(bb(0.4))?,
     )?;
-    let (i0, i1) = (Amps::new(bb(0.4))?, Amps::new(bb(0.0))?);
-    let dec = decay.decay(i0, i1)?;
-    acc += decay.time_to(i0, i1)?.value() + dec.clamp_energy.value() + dec.resistive_energy.value();
-    let path = ThermalPath::new(bb(200.0), t, Temperature::from_celsius(bb(150.0))?)?;
+    let i1 = Amps::new(bb(0.0))?;
+    let dec = decay.decay_to(i1)?;
+    acc += decay.time_to(i1)?.value() + dec.clamp_energy.value() + dec.resistive_energy.value();
+    let path = ThermalPath {
+        resistance_k_per_w: bb(200.0),
+        ambient: t,
+        junction_max: Temperature::from_celsius(bb(150.0))?,
+    };
     acc += path.check(Watts::new(bb(0.1))?)?.junction.kelvin();
     let w = bb(&WINDOWS);
     let mut h: VerdictHistory<4> = VerdictHistory::new();
