@@ -57,3 +57,5 @@ pub fn simpson_decay(l: f64, i0: f64, i1: f64, n: usize, g: &dyn Fn(f64) -> f64)
     }
     acc
 }
+
+pub mod spice;
