@@ -106,6 +106,34 @@ impl Varistor {
         })
     }
 
+    /// The same varistor with V₁ scaled by `k`: a part-to-part tolerance (datasheets give V₁
+    /// at 1 mA as nominal ± 10 %, common practice).
+    ///
+    /// # Errors
+    /// `k` outside 0.5…1.5 → [`Reason::OutsideValidatedRange`] on `"varistor tolerance"`.
+    ///
+    /// ```
+    /// use kickguard::varistor::Varistor;
+    /// use kickguard::{Amps, PerKelvin, Temperature, Volts};
+    /// let t = Temperature::from_celsius(25.0)?;
+    /// let mov = Varistor::new(Volts::new(39.0)?, Amps::new(1e-3)?, 30.0, PerKelvin::ZERO, t)?;
+    /// let v = mov.scaled(1.1)?.voltage(Amps::new(1e-3)?, t)?;
+    /// assert!((v.value() - 42.9).abs() < 1e-3);
+    /// # Ok::<(), kickguard::Error>(())
+    /// ```
+    pub fn scaled(&self, k: f32) -> Result<Self, Error> {
+        let k = error::within("varistor tolerance", k, 0.5, 1.5)?;
+        Ok(Varistor {
+            v1: self.v1 * k,
+            ..*self
+        })
+    }
+
+    /// V₁, the voltage at the reference current at the reference temperature.
+    pub fn reference_voltage(&self) -> Volts {
+        Volts::raw(self.v1)
+    }
+
     /// The nonlinearity exponent α.
     pub fn alpha(&self) -> f32 {
         self.alpha

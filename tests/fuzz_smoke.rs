@@ -4,8 +4,8 @@
 //! `KICKGUARD_FUZZ_RUNS` mutations (default 300). The regression inputs the coverage-guided fuzzer
 //! found are replayed too.
 
-use kickguard::host::quantity::{parse, Unit};
-use kickguard::host::{analyse_text, HostError, Options};
+use kickguard::host::file::quantity::{parse, Unit};
+use kickguard::host::{analyse_text, output, render_outputs, HostError, Options};
 
 struct XorShift(u64);
 impl XorShift {
@@ -82,7 +82,7 @@ fn mutated_design_files_never_panic() {
         match analyse_text(&text, "fuzz.toml", &Options::default()) {
             Ok(r) => {
                 ok += 1;
-                assert!(!r.text().is_empty() && r.json().is_ok());
+                assert!(!output::text::render(&r).is_empty() && render_outputs(&r).is_ok());
             }
             Err(HostError::Input { line, column, .. }) => {
                 located += 1;

@@ -9,10 +9,7 @@ fuzz_target!(|data: &[u8]| {
     let text = String::from_utf8_lossy(data);
     match analyse_text(&text, "fuzz.toml", &Options::default()) {
         Ok(report) => {
-            let _ = report.text();
-            let _ = report.json();
-            let _ = kickguard::host::codegen::c_header(&report);
-            let _ = kickguard::host::codegen::rust_module(&report);
+            let _ = kickguard::host::render_outputs(&report);
         }
         Err(HostError::Input { line, column, .. }) => assert!(line >= 1 && column >= 1),
         Err(_) => {}

@@ -2,10 +2,10 @@
 //! parses is finite.
 #![no_main]
 
-use kickguard::host::quantity::{parse, Unit};
+use kickguard::host::file::quantity::{parse, Unit};
 use libfuzzer_sys::fuzz_target;
 
-const UNITS: [Unit; 14] = [
+const UNITS: [Unit; 18] = [
     Unit::Volt,
     Unit::Amp,
     Unit::Ohm,
@@ -20,6 +20,10 @@ const UNITS: [Unit; 14] = [
     Unit::Percent,
     Unit::PercentPerKelvin,
     Unit::KelvinPerWatt,
+    Unit::JoulePerKelvin,
+    Unit::Ticks,
+    Unit::AmpsPerVoltSquared,
+    Unit::Number,
 ];
 
 fuzz_target!(|data: &[u8]| {

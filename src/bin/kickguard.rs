@@ -1,20 +1,20 @@
 //! `kickguard`: the firmware configuration step from the command line.
 //!
 //! Exit status: 0 every check passed; 1 a check failed (the design is unsafe as described);
-//! 2 bad input (the file cannot be read or parsed, or a value is refused), and nothing is written.
+//! 2 bad input (the file cannot be read or parsed, a value is refused, or the command line is
+//! wrong), and nothing is written.
 
 use clap::{Parser, Subcommand};
-use kickguard::host::{analyse_file, write_outputs, Options};
+use kickguard::host::{analyse_file, output, write_outputs, MonteCarlo, Options};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-/// Suppression, timing, input-protection and diagnosis checks for coil drivers, from a design
-/// file; writes a report, JSON, plots and the firmware's constants.
-///
-/// Results are engineering estimates from simplified models: verify on the real hardware; local
-/// codes and licensed practice prevail.
+/// Text after the options, the same for `-h` and `--help`.
+const AFTER: &str = "The annotated example design is examples/greenhouse.toml in the kickguard repository: every field, its unit and its meaning.\n\nResults are engineering estimates from simplified models: verify on the real hardware; local codes and licensed practice prevail.\n\nExit status: 0 every check passed, 1 a check failed, 2 bad input (nothing written).";
+
+/// Suppression, timing, input-protection and diagnosis checks for coil drivers, from a design file.
 #[derive(Parser)]
-#[command(name = "kickguard", version, about, long_about)]
+#[command(name = "kickguard", version, about, after_help = AFTER)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -22,23 +22,30 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
-    /// Analyse a design file: print the report, write the outputs.
+    /// Analyse a design file: print the report and write report, JSON, plots and constants.
+    #[command(after_help = AFTER)]
     Check {
-        /// The design file (TOML).
+        /// The design file (TOML; see examples/greenhouse.toml).
         design: PathBuf,
-        /// Directory for report.txt, report.json, plots and generated constants.
+        /// Directory for report.txt, report.json, the plots and the generated constants.
         #[arg(long, default_value = "kickguard-out")]
         out: PathBuf,
-        /// Also draw this many Monte Carlo samples per driver (uniform within tolerances).
-        #[arg(long, value_name = "SAMPLES")]
+        /// Also draw this many Monte Carlo samples per driver (1 or more), uniform inside each corner box.
+        #[arg(long, value_name = "SAMPLES", value_parser = clap::value_parser!(u32).range(1..))]
         monte_carlo: Option<u32>,
-        /// Seed of the Monte Carlo generator (the same seed gives the same samples).
-        #[arg(long, default_value_t = 1)]
-        seed: u64,
+        /// Seed of the Monte Carlo generator (needs --monte-carlo; the same seed gives the same samples).
+        #[arg(long, requires = "monte_carlo")]
+        seed: Option<u64>,
         /// Print the JSON report instead of the text.
         #[arg(long)]
         json: bool,
     },
+}
+
+/// Prints an error and returns exit status 2.
+fn bad(e: impl std::fmt::Display) -> ExitCode {
+    eprintln!("error: {e}");
+    ExitCode::from(2)
 }
 
 fn main() -> ExitCode {
@@ -50,48 +57,41 @@ fn main() -> ExitCode {
             return ExitCode::from(code);
         }
     };
-    match cli.command {
-        Command::Check {
-            design,
-            out,
-            monte_carlo,
-            seed,
-            json,
-        } => {
-            let options = Options {
-                monte_carlo: monte_carlo.map(|n| (n, seed)),
-            };
-            let report = match analyse_file(&design, &options) {
-                Ok(r) => r,
-                Err(e) => {
-                    eprintln!("error: {e}");
-                    return ExitCode::from(2);
-                }
-            };
-            match write_outputs(&report, &out) {
-                Ok(paths) => {
-                    if json {
-                        match report.json() {
-                            Ok(j) => println!("{j}"),
-                            Err(e) => {
-                                eprintln!("error: {e}");
-                                return ExitCode::from(2);
-                            }
-                        }
-                    } else {
-                        print!("{}", report.text());
-                        println!();
-                        for p in paths {
-                            println!("wrote {}", p.display());
-                        }
-                    }
-                }
-                Err(e) => {
-                    eprintln!("error: {e}");
-                    return ExitCode::from(2);
+    let Command::Check {
+        design,
+        out,
+        monte_carlo,
+        seed,
+        json,
+    } = cli.command;
+    let options = Options {
+        monte_carlo: monte_carlo.map(|samples| MonteCarlo {
+            samples,
+            seed: seed.unwrap_or(1),
+        }),
+    };
+    let report = match analyse_file(&design, &options) {
+        Ok(r) => r,
+        Err(e) => return bad(e),
+    };
+    let text = if json {
+        match output::json::render(&report) {
+            Ok(j) => j,
+            Err(e) => return bad(e),
+        }
+    } else {
+        output::text::render(&report)
+    };
+    match write_outputs(&report, &out) {
+        Ok(paths) => {
+            println!("{text}");
+            if !json {
+                for p in paths {
+                    println!("wrote {}", p.display());
                 }
             }
-            ExitCode::from(if report.failed() { 1 } else { 0 })
         }
+        Err(e) => return bad(e),
     }
+    ExitCode::from(if report.failed() { 1 } else { 0 })
 }

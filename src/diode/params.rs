@@ -286,6 +286,56 @@ impl Diode {
         }
     }
 
+    /// The same diode with its forward drop moved by `dv` at its nominal temperature: a
+    /// part-to-part spread of ±`dv` (datasheets give V_F as typical and maximum).
+    ///
+    /// Model: a fixed drop becomes V_F + dv. For the law, IS is scaled by
+    /// exp(−dv/(N·Vt(TNOM))), which moves N·Vt·ln(I/IS) by exactly +dv at TNOM for every
+    /// current where I ≫ IS (the RS term is unchanged), and by dv·T/TNOM at another temperature
+    /// (the spread of IS is a spread of the junction's area or doping, so it scales with the
+    /// thermal voltage). A larger drop means more clamp voltage at every current and
+    /// temperature, so every decay quantity stays monotone in `dv`.
+    ///
+    /// Work: one exponential.
+    ///
+    /// # Errors
+    /// `dv` outside ±1 V → [`Reason::OutsideValidatedRange`] on `"drop shift"`; a fixed drop that
+    /// would leave 0 … 10 V → [`Reason::OutsideValidatedRange`] on `"diode drop"`; a scaled IS
+    /// outside 1e-20 … 1e-2 A → [`Reason::OutsideValidatedRange`] on `"IS"`.
+    ///
+    /// ```
+    /// use kickguard::diode::{Diode, DiodeParams};
+    /// use kickguard::{Amps, Temperature, Volts};
+    /// let d = Diode::Law(DiodeParams::SILICON);
+    /// let t = DiodeParams::SILICON.tnom();
+    /// let i = Amps::new(0.3)?;
+    /// let up = d.shifted(Volts::new(0.05)?)?;
+    /// let dv = up.forward_drop(i, t)?.value() - d.forward_drop(i, t)?.value();
+    /// assert!((dv - 0.05).abs() < 1e-4);
+    /// # Ok::<(), kickguard::Error>(())
+    /// ```
+    pub fn shifted(&self, dv: Volts) -> Result<Diode, Error> {
+        let dv = error::within("drop shift", dv.value(), -1.0, 1.0)?;
+        match self {
+            Diode::FixedDrop(_) => {
+                let x = self.checked_fixed_drop()? + dv;
+                if !(x > 0.0 && x <= Self::MAX_FIXED_DROP_V) {
+                    return Err(Error::new("diode drop", Reason::OutsideValidatedRange));
+                }
+                Ok(Diode::FixedDrop(Volts::raw(x)))
+            }
+            Diode::Law(p) => {
+                let nvt = p.n * crate::physics::vt_at(p.tnom_k);
+                let ln_is = p.ln_is - dv / nvt;
+                let is_a = crate::math::exp(ln_is);
+                if !(is_a >= IS_RANGE.0 && is_a <= IS_RANGE.1) {
+                    return Err(Error::new("IS", Reason::OutsideValidatedRange));
+                }
+                Ok(Diode::Law(DiodeParams { is_a, ln_is, ..*p }))
+            }
+        }
+    }
+
     /// The forward drop at current `i` (> 0) and temperature `t`: the law's
     /// [`DiodeParams::forward_drop`], or the fixed drop.
     ///

@@ -1,32 +1,49 @@
 //! The firmware configuration step, on the host (feature `host`, uses `std`).
 //!
-//! Describe the board once in a TOML design file; get a verdict per check with margins and the
-//! worst corner, plots to choose a clamp, and the constants the firmware compiles in. Two ways
-//! in: the `kickguard` command-line tool, and [`configure`] from a firmware's `build.rs`, which
-//! fails the build with the reason when the design is unsafe.
+//! Describe the board once in a TOML design file; get a verdict per check with its value,
+//! limit, margin and worst corner, plots to choose a clamp, and the constants the firmware
+//! compiles in. Two ways in: the `kickguard` command-line tool, and [`configure`] from a
+//! firmware's `build.rs`, which fails the build with the reason when the design is unsafe.
 //!
-//! Read in this order: [`design`] (the file's schema and located errors), [`quantity`] (values
-//! with units), [`analysis`] (worst case over the corners, sizing, constants), [`report`] (text
-//! and JSON), [`codegen`] (Rust module and C header), [`plot`] (SVG).
+//! The data flows one way, one job per module:
+//! 1. [`file`]: the text → the file's schema, every error located `file:line:column: field`;
+//! 2. [`board`]: the schema → a typed, validated board (units resolved, ranges and rules
+//!    between fields checked, tolerances kept as axis ranges);
+//! 3. [`corners`], [`parts`], [`figures`], [`heating`], [`sizing`], [`engine`]: each driver's
+//!    corner box, its circuit and figures at any point, the values it sizes, the self-heating
+//!    iteration;
+//! 4. [`checks`]: verdicts from the analysed drivers; [`montecarlo`]: the same figures
+//!    inside the box, against the vertex search;
+//! 5. [`report`]: the result as data; [`output`]: text, JSON, SVG, Rust and C, reading only
+//!    the report.
 //!
-//! Nothing is written when the input is bad: the whole analysis runs before any file is created.
+//! Nothing is written when the input is bad: the whole analysis runs before any file is
+//! created.
 
-pub mod analysis;
-pub mod codegen;
-pub mod design;
-pub mod plot;
-pub mod quantity;
+pub mod board;
+pub mod checks;
+pub mod corners;
+pub mod engine;
+pub mod figures;
+pub mod file;
+pub mod heating;
+pub mod montecarlo;
+pub mod output;
+pub mod parts;
 pub mod report;
+pub mod sizing;
 
 use std::fmt;
 use std::path::{Path, PathBuf};
 use std::string::{String, ToString};
 use std::vec::Vec;
 
+pub use montecarlo::Request as MonteCarlo;
+
 /// Why the configuration step could not produce a result.
-#[derive(Debug)]
+#[derive(Debug, Clone, PartialEq)]
 pub enum HostError {
-    /// The design file is malformed or a value is wrong: where and why.
+    /// The design file is malformed, a value is wrong, or the model refuses it: where and why.
     Input {
         /// File path.
         file: String,
@@ -34,17 +51,10 @@ pub enum HostError {
         line: usize,
         /// 1-based column.
         column: usize,
-        /// Field (dotted path where known).
+        /// Field (dotted path as written, `driver[0].coil.inductance`).
         field: String,
         /// What is wrong.
         message: String,
-    },
-    /// A value is well-formed but the model refuses it (the field it came from, and why).
-    Model {
-        /// Field or part of the design.
-        field: String,
-        /// The model's typed error.
-        error: crate::Error,
     },
     /// Reading or writing a file failed.
     Io {
@@ -68,10 +78,9 @@ impl fmt::Display for HostError {
                 if field.is_empty() {
                     write!(f, "{file}:{line}:{column}: {message}")
                 } else {
-                    write!(f, "{file}:{line}:{column}: field `{field}`: {message}")
+                    write!(f, "{file}:{line}:{column}: {field}: {message}")
                 }
             }
-            HostError::Model { field, error } => write!(f, "{field}: {error}"),
             HostError::Io { path, message } => write!(f, "{path}: {message}"),
         }
     }
@@ -79,26 +88,53 @@ impl fmt::Display for HostError {
 
 impl std::error::Error for HostError {}
 
-/// Options of a run.
-#[derive(Debug, Clone, Default)]
-pub struct Options {
-    /// Monte Carlo samples per driver and the seed, if wanted.
-    pub monte_carlo: Option<(u32, u64)>,
+/// A C and Rust identifier from a name as written: ASCII letters and digits kept (lower
+/// case), everything else an underscore, a leading underscore before a digit.
+pub fn ident(name: &str) -> String {
+    let mut s: String = name
+        .chars()
+        .map(|c| {
+            if c.is_ascii_alphanumeric() {
+                c.to_ascii_lowercase()
+            } else {
+                '_'
+            }
+        })
+        .collect();
+    if s.chars().next().is_none_or(|c| c.is_ascii_digit()) {
+        s.insert(0, '_');
+    }
+    s
 }
 
-/// Analyses a design given as text (`path` is only used in messages).
+/// Options of a run.
+#[derive(Debug, Clone, Copy, Default, PartialEq, Eq)]
+pub struct Options {
+    /// A Monte Carlo run beside the vertex search, if wanted.
+    pub monte_carlo: Option<MonteCarlo>,
+}
+
+/// Reads a design's text into its typed board.
 ///
 /// # Errors
-/// [`HostError::Input`] with file, line, column and field for a bad file; [`HostError::Model`]
-/// for values the models refuse.
+/// A located [`HostError::Input`] for the first thing wrong.
+pub fn read_board(text: &str, path: &str) -> Result<board::Board, HostError> {
+    let reader = file::Reader::new(text, path);
+    let parsed = file::parse_file(&reader)?;
+    board::convert(&parsed, &reader)
+}
+
+/// Analyses a design given as text (`path` is used in messages and the report).
+///
+/// # Errors
+/// A located [`HostError::Input`] for a bad file or a value the models refuse.
 pub fn analyse_text(
     text: &str,
     path: &str,
     options: &Options,
 ) -> Result<report::Report, HostError> {
-    let reader = design::Reader { text, path };
-    let file = design::parse_file(&reader)?;
-    analysis::analyse(&file, &reader, options.monte_carlo)
+    let board = read_board(text, path)?;
+    report::build(&board, options.monte_carlo)
 }
 
 /// Reads and analyses a design file.
@@ -113,12 +149,44 @@ pub fn analyse_file(path: &Path, options: &Options) -> Result<report::Report, Ho
     analyse_text(&text, &path.display().to_string(), options)
 }
 
-/// Writes every output of a report into `dir`: `report.txt`, `report.json`, `kickguard_config.rs`,
-/// `kickguard_config.h` and one `plot_<driver>.svg` per driver. Returns the paths written.
+/// Every output of a report, as (file name, contents): `report.txt`, `report.json`,
+/// `kickguard_config.rs`, `kickguard_config.h` and one `plot_<module>.svg` per driver.
 ///
 /// # Errors
-/// [`HostError::Io`] when a file cannot be written.
-pub fn write_outputs(report: &report::Report, dir: &Path) -> Result<Vec<PathBuf>, HostError> {
+/// A plot that cannot be drawn, or JSON that cannot be written.
+pub fn render_outputs(r: &report::Report) -> Result<Vec<(String, String)>, HostError> {
+    let io = |what: &str| {
+        let what = what.to_string();
+        move |m: String| HostError::Io {
+            path: what.clone(),
+            message: m,
+        }
+    };
+    let mut files = std::vec![
+        ("report.txt".to_string(), output::text::render(r)),
+        (
+            "report.json".to_string(),
+            output::json::render(r).map_err(io("report.json"))?
+        ),
+        ("kickguard_config.rs".to_string(), output::rust::render(r)),
+        ("kickguard_config.h".to_string(), output::c::render(r)),
+    ];
+    for d in &r.drivers {
+        if let Some(p) = &d.plot {
+            let name = std::format!("plot_{}.svg", p.module);
+            files.push((name.clone(), output::svg::render(p).map_err(io(&name))?));
+        }
+    }
+    Ok(files)
+}
+
+/// Writes every output of a report into `dir`; returns the paths written. Everything is
+/// rendered before the first file is created.
+///
+/// # Errors
+/// [`HostError::Io`] when a file cannot be rendered or written.
+pub fn write_outputs(r: &report::Report, dir: &Path) -> Result<Vec<PathBuf>, HostError> {
+    let files = render_outputs(r)?;
     let io = |p: &Path| {
         let p = p.display().to_string();
         move |e: std::io::Error| HostError::Io {
@@ -127,30 +195,9 @@ pub fn write_outputs(report: &report::Report, dir: &Path) -> Result<Vec<PathBuf>
         }
     };
     std::fs::create_dir_all(dir).map_err(io(dir))?;
-    let mut files: Vec<(PathBuf, String)> = Vec::new();
-    files.push((dir.join("report.txt"), report.text()));
-    let json = report.json().map_err(|e| HostError::Io {
-        path: "report.json".to_string(),
-        message: e.to_string(),
-    })?;
-    files.push((dir.join("report.json"), json));
-    files.push((
-        dir.join("kickguard_config.rs"),
-        codegen::rust_module(report),
-    ));
-    files.push((dir.join("kickguard_config.h"), codegen::c_header(report)));
-    for p in &report.plots {
-        let svg = plot::svg(p).map_err(|m| HostError::Io {
-            path: p.name.clone(),
-            message: m,
-        })?;
-        files.push((
-            dir.join(std::format!("plot_{}.svg", analysis::ident(&p.name))),
-            svg,
-        ));
-    }
     let mut written = Vec::new();
-    for (path, body) in files {
+    for (name, body) in files {
+        let path = dir.join(name);
         std::fs::write(&path, body).map_err(io(&path))?;
         written.push(path);
     }
@@ -167,13 +214,13 @@ pub fn configure(
     design: impl AsRef<Path>,
     out_dir: impl AsRef<Path>,
 ) -> Result<report::Report, String> {
-    let report = analyse_file(design.as_ref(), &Options::default()).map_err(|e| e.to_string())?;
-    if report.failed() {
+    let r = analyse_file(design.as_ref(), &Options::default()).map_err(|e| e.to_string())?;
+    if r.failed() {
         return Err(std::format!(
             "kickguard: the design is unsafe as described\n{}",
-            report.text()
+            output::text::render(&r)
         ));
     }
-    write_outputs(&report, out_dir.as_ref()).map_err(|e| e.to_string())?;
-    Ok(report)
+    write_outputs(&r, out_dir.as_ref()).map_err(|e| e.to_string())?;
+    Ok(r)
 }

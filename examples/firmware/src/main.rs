@@ -1,7 +1,8 @@
-//! What the firmware does with the generated constants: integer waits and an integer-only
-//! diagnosis verdict. (On the target this code runs in the coil-switching task; here it prints.)
+//! What the firmware does with the generated constants: integer waits, the hold's timer counts
+//! and an integer-only diagnosis verdict that acts after the confirmations the configuration
+//! step has checked against what the switch survives. (On the target this code runs in the
+//! coil-switching task; here it prints.)
 
-#[allow(dead_code)] // the firmware uses only some of the generated constants
 mod config {
     include!(concat!(env!("OUT_DIR"), "/kickguard_config.rs"));
 }
@@ -17,23 +18,29 @@ fn main() {
         config::TICK_HZ
     );
     println!(
-        "valve: hold compare {} of {}",
-        config::valve::HOLD_COMPARE,
-        config::valve::PWM_TOP
+        "valve: full drive for {} ticks, then hold with {} of {} PWM counts on",
+        config::valve::PULL_IN_TICKS,
+        config::valve::HOLD_ON_COUNTS,
+        config::valve::PWM_PERIOD_COUNTS
     );
 
-    // Diagnosis: the 55 V comparator's windows; three switch-offs in a row must agree.
+    // Diagnosis: the 55 V comparator's windows. A healthy switch-off never trips it; an open
+    // clamp does. Act after the confirmations the configuration step accepted: it has checked
+    // that the switch survives that many open-clamp switch-offs (OPEN_CLAMP_SURVIVABLE).
     let windows = Windows::from_rows(&config::valve::DIAG_1_WINDOWS);
+    let needed = config::valve::FAULT_CONFIRMATIONS as usize;
     let mut history: VerdictHistory<8> = VerdictHistory::new();
+    let open = Verdict::Fault(Condition::FreewheelOpen);
     for measured_ticks in [0u32, 0, 31, 30, 29] {
         let v = windows.classify(measured_ticks);
         history.push(v);
         println!("measured {measured_ticks:>3} ticks above 55 V → {v:?}");
-    }
-    let open = Verdict::Fault(Condition::FreewheelOpen);
-    if history.confirmed(open, 3) {
-        println!(
-            "freewheeling diode open confirmed three times: disable the valve driver and report"
-        );
+        if history.confirmed(open, needed) {
+            println!(
+                "clamp path open confirmed {needed} times in a row (the switch survives {}): disable the valve driver and report",
+                if config::valve::OPEN_CLAMP_SURVIVABLE == u32::MAX { "it repetitively".to_string() } else { format!("{}", config::valve::OPEN_CLAMP_SURVIVABLE) }
+            );
+            break;
+        }
     }
 }

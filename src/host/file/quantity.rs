@@ -1,9 +1,11 @@
 //! Quantities with units in design files: `"350 mH"`, `"56 Ω"`, `"4.7 kohm"`, `"-10 °C"`,
-//! `"25 K"`, `"10 %"`, `"0.08 %/K"`, `"20 kHz"`, `"62 K/W"`, `"1 µA"`.
+//! `"25 K"`, `"10 %"`, `"0.08 %/K"`, `"20 kHz"`, `"62 K/W"`, `"20 mJ/K"`, `"1 µA"`,
+//! `"2 ticks"`, `"5 A/V²"`.
 //!
 //! Grammar: a decimal number, optional spaces, then the unit, optionally preceded by one SI
-//! prefix (p, n, u or µ, m, k, M). A bare number is refused for any dimensional field, so that
-//! "350" meant as millihenries cannot slip through as 350 H.
+//! prefix (p, n, u or µ, m, k, M, G). A bare number is refused for any dimensional field, so
+//! that "350" meant as millihenries cannot slip through as 350 H; only a dimensionless field
+//! ([`Unit::Number`]) takes one.
 
 use std::format;
 use std::string::String;
@@ -39,6 +41,14 @@ pub enum Unit {
     PercentPerKelvin,
     /// a thermal resistance in K/W
     KelvinPerWatt,
+    /// a thermal capacitance in J/K
+    JoulePerKelvin,
+    /// timer ticks (a count, for timing jitter)
+    Ticks,
+    /// a MOSFET's transconductance parameter K in A/V²
+    AmpsPerVoltSquared,
+    /// a dimensionless number (no unit)
+    Number,
 }
 
 impl Unit {
@@ -59,6 +69,10 @@ impl Unit {
             Unit::Percent => &["%"],
             Unit::PercentPerKelvin => &["%/K"],
             Unit::KelvinPerWatt => &["K/W"],
+            Unit::JoulePerKelvin => &["J/K"],
+            Unit::Ticks => &["ticks", "tick"],
+            Unit::AmpsPerVoltSquared => &["A/V²", "A/V^2", "A/V2"],
+            Unit::Number => &[""],
         }
     }
 
@@ -71,6 +85,8 @@ impl Unit {
                 | Unit::Percent
                 | Unit::PercentPerKelvin
                 | Unit::KelvinPerWatt
+                | Unit::Ticks
+                | Unit::Number
         )
     }
 
@@ -91,6 +107,10 @@ impl Unit {
             Unit::Percent => "\"10 %\"",
             Unit::PercentPerKelvin => "\"0.08 %/K\"",
             Unit::KelvinPerWatt => "\"62 K/W\"",
+            Unit::JoulePerKelvin => "\"20 mJ/K\"",
+            Unit::Ticks => "\"2 ticks\"",
+            Unit::AmpsPerVoltSquared => "\"5 A/V²\"",
+            Unit::Number => "\"30\"",
         }
     }
 }
@@ -103,6 +123,7 @@ fn prefix_factor(c: &str) -> Option<f64> {
         "m" => 1e-3,
         "k" => 1e3,
         "M" => 1e6,
+        "G" => 1e9,
         _ => return None,
     })
 }
@@ -125,6 +146,9 @@ pub fn parse(text: &str, unit: Unit) -> Result<f64, String> {
         return Err(format!("\"{text}\" is not a finite number"));
     }
     let rest = rest.trim();
+    if rest.is_empty() && unit == Unit::Number {
+        return Ok(value);
+    }
     if rest.is_empty() {
         return Err(format!(
             "\"{text}\" has no unit; expected e.g. {}",

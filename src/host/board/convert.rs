@@ -1,0 +1,341 @@
+//! The one conversion from the file as written to the typed board: units resolved, physical
+//! ranges and cross-field rules checked, each error located at the field it is about.
+//!
+//! Accepted physical ranges (also shown in every refusal): tick rate 1 Hz … 1 GHz; ambient
+//! −60 … 125 °C; self-heating 0 … 150 K (the hottest winding stays ≤ 250 °C); supplies
+//! 0.1 … 1000 V; inductance 1 µH … 1000 H; resistance 1 mΩ … 1 MΩ at −100 … 250 °C;
+//! tolerances 0 … 50 %; switch ratings 1 V … 10 kV.
+
+use super::read::{range, ReadQ};
+use super::{Board, DriverBoard, SupplyRange};
+use crate::clamp::Side;
+use crate::coil::Coil;
+use crate::host::file::quantity::Unit;
+use crate::host::file::{self, DesignFile, Reader};
+use crate::host::HostError;
+use crate::units::{Henries, Hertz, Ohms, Seconds, TempDelta, Temperature, Volts};
+use std::format;
+use std::string::{String, ToString};
+use std::vec::Vec;
+
+/// A temperature in °C from a value already range-checked.
+fn celsius(r: &Reader<'_>, field: &str, c: f32) -> Result<Temperature, HostError> {
+    Temperature::from_celsius(c).map_err(|e| r.model(field, e))
+}
+
+/// Converts the parsed file into the typed board.
+///
+/// # Errors
+/// A located error for every value out of its range and every rule between fields broken.
+pub fn convert(f: &DesignFile, r: &Reader<'_>) -> Result<Board, HostError> {
+    let tick = r.q(
+        &f.tick_rate,
+        "tick_rate",
+        Unit::Hertz,
+        range(1.0, 1e9, "1 Hz … 1 GHz"),
+    )?;
+    let pwm_clock = r.oq(
+        &f.pwm_timer_clock,
+        "pwm_timer_clock",
+        Unit::Hertz,
+        range(1e3, 1e9, "1 kHz … 1 GHz"),
+    )?;
+    let (ambient, coil_heating) = environment(f, r)?;
+    let mut drivers = Vec::new();
+    for (k, d) in f.driver.iter().enumerate() {
+        drivers.push(driver(f, r, k, d, ambient)?);
+    }
+    unique_names(
+        r,
+        drivers.iter().map(|d| (d.name.as_str(), d.field.as_str())),
+    )?;
+    let inputs = super::inputs::convert(f, r, &drivers, ambient)?;
+    Ok(Board {
+        title: f.title.clone(),
+        file: r.path.to_string(),
+        tick: Hertz::new(tick).map_err(|e| r.model("tick_rate", e))?,
+        pwm_clock: pwm_clock
+            .map(Hertz::new)
+            .transpose()
+            .map_err(|e| r.model("pwm_timer_clock", e))?,
+        ambient,
+        coil_heating,
+        drivers,
+        inputs,
+        places: r.places(),
+    })
+}
+
+/// Two subjects with one name (or one identifier) would share their constants.
+pub(super) fn unique_names<'a>(
+    r: &Reader<'_>,
+    names: impl Iterator<Item = (&'a str, &'a str)>,
+) -> Result<(), HostError> {
+    let mut seen: Vec<String> = Vec::new();
+    for (name, field) in names {
+        let id = crate::host::ident(name);
+        if seen.contains(&id) {
+            return Err(r.at(
+                &format!("{field}.name"),
+                format!("\"{name}\" is used twice (its constants would clash)"),
+            ));
+        }
+        seen.push(id);
+    }
+    Ok(())
+}
+
+fn environment(
+    f: &DesignFile,
+    r: &Reader<'_>,
+) -> Result<((Temperature, Temperature), TempDelta), HostError> {
+    let e = &f.environment;
+    let amb = range(-60.0, 125.0, "−60 … 125 °C");
+    let lo = r.q(
+        &e.ambient_min,
+        "environment.ambient_min",
+        Unit::Celsius,
+        amb,
+    )?;
+    let hi = r.q(
+        &e.ambient_max,
+        "environment.ambient_max",
+        Unit::Celsius,
+        amb,
+    )?;
+    if !(hi > lo) {
+        return Err(r.at("environment.ambient_max", "must be above ambient_min"));
+    }
+    let heat = r.q(
+        &e.coil_self_heating,
+        "environment.coil_self_heating",
+        Unit::Kelvin,
+        range(0.0, 150.0, "0 … 150 K"),
+    )?;
+    if hi + heat > 250.0 {
+        return Err(r.at(
+            "environment.coil_self_heating",
+            "takes the hottest winding above 250 °C",
+        ));
+    }
+    Ok((
+        (
+            celsius(r, "environment.ambient_min", lo)?,
+            celsius(r, "environment.ambient_max", hi)?,
+        ),
+        TempDelta::from_kelvin(heat).map_err(|e| r.model("environment.coil_self_heating", e))?,
+    ))
+}
+
+fn supply(
+    f: &DesignFile,
+    r: &Reader<'_>,
+    field: &str,
+    name: &str,
+) -> Result<SupplyRange, HostError> {
+    let (k, s) = f
+        .supply
+        .iter()
+        .enumerate()
+        .find(|(_, s)| s.name.get_ref() == name)
+        .ok_or_else(|| {
+            r.at(
+                &format!("{field}.supply"),
+                format!("no supply named \"{name}\""),
+            )
+        })?;
+    let at = |x: &str| format!("supply[{k}].{x}");
+    let v = range(0.1, 1000.0, "0.1 … 1000 V");
+    let nominal = r.q(&s.nominal, &at("nominal"), Unit::Volt, v)?;
+    let min = r.q(&s.min, &at("min"), Unit::Volt, v)?;
+    let max = r.q(&s.max, &at("max"), Unit::Volt, v)?;
+    if !(min <= nominal) {
+        return Err(r.at(&at("min"), "must not exceed the nominal voltage"));
+    }
+    if !(max >= nominal) {
+        return Err(r.at(&at("max"), "must not be below the nominal voltage"));
+    }
+    let volts = |x: f32, w: &str| Volts::new(x).map_err(|e| r.model(&at(w), e));
+    Ok(SupplyRange {
+        nominal: volts(nominal, "nominal")?,
+        min: volts(min, "min")?,
+        max: volts(max, "max")?,
+    })
+}
+
+fn driver(
+    f: &DesignFile,
+    r: &Reader<'_>,
+    k: usize,
+    d: &file::Driver,
+    ambient: (Temperature, Temperature),
+) -> Result<DriverBoard, HostError> {
+    let field = format!("driver[{k}]");
+    let at = |x: &str| format!("{field}.{x}");
+    let count = *d.count.get_ref();
+    if !(1..=64).contains(&count) {
+        return Err(r.error(d.count.span(), &at("count"), "must be 1 … 64"));
+    }
+    let side = match d.side.as_ref().map(|s| s.get_ref().as_str()) {
+        None | Some("low") => Side::Low,
+        Some("high") => Side::High,
+        Some(other) => {
+            return Err(r.at(
+                &at("side"),
+                format!("\"{other}\" is not a side; expected \"low\" or \"high\""),
+            ))
+        }
+    };
+    let supply = supply(f, r, &field, d.supply.get_ref())?;
+    let (coil, l_tol, r_tol) = coil(r, &field, &d.coil)?;
+    let (operate, release) = magnetic(r, &field, &d.coil, supply.nominal)?;
+    let mech = r.oq(
+        &d.coil.mechanical_release,
+        &at("coil.mechanical_release"),
+        Unit::Second,
+        range(0.0, 10.0, "0 … 10 s"),
+    )?;
+    let switch = super::switch::convert(r, &field, &d.switch, &supply, ambient)?;
+    let clamp = super::clamp::convert(r, &field, &d.clamp, &supply, ambient)?;
+    let secs = |x: f32, w: &str| Seconds::new(x).map_err(|e| r.model(&at(w), e));
+    let max_release = r.oq(
+        &d.max_release_time,
+        &at("max_release_time"),
+        Unit::Second,
+        range(1e-6, 10.0, "1 µs … 10 s"),
+    )?;
+    let rate = r.oq(
+        &d.switching_rate,
+        &at("switching_rate"),
+        Unit::Hertz,
+        range(1e-6, 1e5, "1 µHz … 100 kHz"),
+    )?;
+    Ok(DriverBoard {
+        name: d.name.get_ref().clone(),
+        module: crate::host::ident(d.name.get_ref()),
+        field: field.clone(),
+        count,
+        side,
+        supply,
+        coil,
+        l_tol,
+        r_tol,
+        operate,
+        release,
+        mechanical: secs(mech.unwrap_or(0.0), "coil.mechanical_release")?,
+        max_release_time: max_release
+            .map(|x| secs(x, "max_release_time"))
+            .transpose()?,
+        switching_rate: rate
+            .map(Hertz::new)
+            .transpose()
+            .map_err(|e| r.model(&at("switching_rate"), e))?,
+        switch,
+        hold: super::hold::convert(r, &field, d, &clamp)?,
+        diagnosis: super::diagnosis::convert(r, &field, d, &clamp, &supply)?,
+        clamp,
+    })
+}
+
+fn coil(r: &Reader<'_>, field: &str, c: &file::CoilSpec) -> Result<(Coil, f32, f32), HostError> {
+    let at = |x: &str| format!("{field}.coil.{x}");
+    let tol = range(0.0, 0.5, "0 … 50 %");
+    let l = r.q(
+        &c.inductance,
+        &at("inductance"),
+        Unit::Henry,
+        range(1e-6, 1e3, "1 µH … 1000 H"),
+    )?;
+    let res = r.q(
+        &c.resistance,
+        &at("resistance"),
+        Unit::Ohm,
+        range(1e-3, 1e6, "1 mΩ … 1 MΩ"),
+    )?;
+    let l_tol = r.q(
+        &c.inductance_tolerance,
+        &at("inductance_tolerance"),
+        Unit::Percent,
+        tol,
+    )?;
+    let r_tol = r.q(
+        &c.resistance_tolerance,
+        &at("resistance_tolerance"),
+        Unit::Percent,
+        tol,
+    )?;
+    let lh = Henries::new(l).map_err(|e| r.model(&at("inductance"), e))?;
+    let ro = Ohms::new(res).map_err(|e| r.model(&at("resistance"), e))?;
+    let coil = if c.resistance_at.get_ref().trim() == "none" {
+        Coil::fixed(lh, ro)
+    } else {
+        let t = r.q(
+            &c.resistance_at,
+            &at("resistance_at"),
+            Unit::Celsius,
+            range(-100.0, 250.0, "−100 … 250 °C"),
+        )?;
+        Coil::copper(lh, ro, celsius(r, &at("resistance_at"), t)?)
+    }
+    .map_err(|e| r.model(&at("resistance"), e))?;
+    Ok((coil, l_tol, r_tol))
+}
+
+/// A must-operate or must-release value: a share of the nominal supply ("60 %") or a voltage.
+fn datasheet_voltage(
+    r: &Reader<'_>,
+    q: &Option<file::Q>,
+    field: &str,
+    nominal: Volts,
+) -> Result<Option<Volts>, HostError> {
+    let Some(q) = q else { return Ok(None) };
+    let v = if q.get_ref().trim_end().ends_with('%') {
+        r.q(
+            q,
+            field,
+            Unit::Percent,
+            range(0.001, 1.5, "0.1 … 150 % of the nominal supply"),
+        )? * nominal.value()
+    } else {
+        r.q(
+            q,
+            field,
+            Unit::Volt,
+            range(
+                1e-3,
+                1.5 * nominal.value() as f64,
+                "1 mV … 1.5 × the nominal supply",
+            ),
+        )?
+    };
+    Volts::new(v).map(Some).map_err(|e| r.model(field, e))
+}
+
+fn magnetic(
+    r: &Reader<'_>,
+    field: &str,
+    c: &file::CoilSpec,
+    nominal: Volts,
+) -> Result<(Option<Volts>, Option<Volts>), HostError> {
+    let op = datasheet_voltage(
+        r,
+        &c.must_operate,
+        &format!("{field}.coil.must_operate"),
+        nominal,
+    )?;
+    let rel = datasheet_voltage(
+        r,
+        &c.must_release,
+        &format!("{field}.coil.must_release"),
+        nominal,
+    )?;
+    if let (Some(o), Some(l)) = (op, rel) {
+        if !(l < o) {
+            return Err(r.at(
+                &format!("{field}.coil.must_release"),
+                "must be below must_operate",
+            ));
+        }
+    }
+    Ok((op, rel))
+}

@@ -1,0 +1,215 @@
+//! Diagnosis, judged where the firmware lives: in timer ticks. For each measurement and each
+//! condition (healthy, clamp path open, zener shorted, coil open, shorted turns, coil too
+//! hot) the window of readings over every vertex, widened by the guard band, rounded outward
+//! to whole ticks (the reading of a time t is ⌊t·f⌋ or ⌈t·f⌉ depending on the timer's
+//! phase) and by the stated timing jitter on each side. A fault is detectable by a
+//! measurement when its tick window and the healthy one share no tick; two faults whose
+//! windows share ticks cannot be told apart there.
+//!
+//! Worst corner: each reading is a decay time, monotone in each axis (see
+//! [`crate::host::checks::timing`]); its window is [min, max] over the vertices.
+
+use super::{Check, Constant, Corner, Metric, Outcome, Status, WindowTable};
+use crate::diagnosis::Condition;
+use crate::host::board::{Board, MeasureBoard};
+use crate::host::engine::DriverRun;
+use crate::host::HostError;
+use crate::units::Seconds;
+use std::format;
+use std::string::String;
+use std::vec::Vec;
+
+/// A condition's readings of one measurement: seconds and ticks.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Window {
+    /// The condition.
+    pub condition: Condition,
+    /// Shortest and longest reading over the vertices, s.
+    pub seconds: (f32, f32),
+    /// The tick window after guard, rounding and jitter.
+    pub ticks: (u32, u32),
+}
+
+/// The condition's words in the report.
+pub fn condition_words(c: Condition) -> &'static str {
+    match c {
+        Condition::Healthy => "healthy",
+        Condition::FreewheelOpen => "clamp path open",
+        Condition::ZenerShorted => "zener shorted",
+        Condition::CoilOpen => "coil open",
+        Condition::ShortedTurns => "shorted turns",
+        Condition::CoilTooHot => "coil too hot",
+    }
+}
+
+/// The measurement's words in the report.
+pub fn measurement_words(m: &MeasureBoard) -> String {
+    match m {
+        MeasureBoard::Comparator(v) => format!("comparator at {v} across the switch"),
+        MeasureBoard::Current { upper, lower } => format!(
+            "current falling from {:.0} mA to {:.0} mA",
+            upper.value() * 1e3,
+            lower.value() * 1e3
+        ),
+    }
+}
+
+/// The tick windows of measurement `k` under every condition that applies.
+///
+/// # Errors
+/// A reading beyond the timer's range.
+pub fn windows(board: &Board, run: &DriverRun, k: usize) -> Result<Vec<Window>, HostError> {
+    let Some(g) = run.d.diagnosis.as_ref() else {
+        return Ok(Vec::new());
+    };
+    let fault =
+        |e: crate::Error| board.fault(&format!("{}.diagnosis", run.d.field), format!("{e}"));
+    let (guard, jitter) = (g.guard.value(), g.jitter_ticks);
+    let mut out = Vec::new();
+    for (c, cond) in Condition::ALL.iter().enumerate() {
+        let m = |high| Metric::Diag {
+            m: k as u8,
+            c: c as u8,
+            high,
+        };
+        let (Some(lo), Some(hi)) = (
+            m(false).worst(&run.d, &run.points, &run.figures),
+            m(true).worst(&run.d, &run.points, &run.figures),
+        ) else {
+            continue;
+        };
+        let t_lo = crate::timing::to_ticks_floor(
+            Seconds::new(lo.value * (1.0 - guard)).map_err(fault)?,
+            board.tick,
+        )
+        .map_err(fault)?;
+        let t_hi = crate::timing::to_ticks(
+            Seconds::new(hi.value * (1.0 + guard)).map_err(fault)?,
+            board.tick,
+        )
+        .map_err(fault)?;
+        out.push(Window {
+            condition: *cond,
+            seconds: (lo.value, hi.value),
+            ticks: (t_lo.saturating_sub(jitter), t_hi.saturating_add(jitter)),
+        });
+    }
+    Ok(out)
+}
+
+/// True when two tick windows share a tick.
+fn overlap(a: (u32, u32), b: (u32, u32)) -> bool {
+    a.0 <= b.1 && b.0 <= a.1
+}
+
+/// A window in words: ticks and milliseconds, or "never trips".
+fn window_words(m: &MeasureBoard, w: &Window) -> String {
+    if w.seconds.1 <= 0.0 {
+        return match m {
+            MeasureBoard::Comparator(_) => "comparator never trips (reads 0)".into(),
+            MeasureBoard::Current { .. } => "reads 0".into(),
+        };
+    }
+    format!(
+        "{} … {} ticks ({:.3} … {:.3} ms)",
+        w.ticks.0,
+        w.ticks.1,
+        w.seconds.0 * 1e3,
+        w.seconds.1 * 1e3
+    )
+}
+
+/// The diagnosis checks and tables.
+///
+/// # Errors
+/// A reading beyond the timer's range.
+pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+    let d = &run.d;
+    let Some(g) = d.diagnosis.as_ref() else {
+        return Ok(());
+    };
+    let mut per: Vec<(Condition, Vec<String>, Vec<String>)> = Vec::new();
+    for (k, m) in g.measurements.iter().enumerate() {
+        let ws = windows(board, run, k)?;
+        let Some(h) = ws
+            .iter()
+            .find(|w| w.condition == Condition::Healthy)
+            .copied()
+        else {
+            continue;
+        };
+        out.windows.push(WindowTable {
+            scope: d.module.clone(),
+            name: format!("DIAG_{k}_WINDOWS"),
+            measurement: measurement_words(m),
+            rows: ws
+                .iter()
+                .map(|w| [w.ticks.0, w.ticks.1, w.condition.code()])
+                .collect(),
+        });
+        for w in ws.iter().filter(|w| w.condition != Condition::Healthy) {
+            let entry = match per.iter().position(|x| x.0 == w.condition) {
+                Some(i) => i,
+                None => {
+                    per.push((w.condition, Vec::new(), Vec::new()));
+                    per.len() - 1
+                }
+            };
+            let text = format!(
+                "{}: {} against healthy {}",
+                measurement_words(m),
+                window_words(m, w),
+                window_words(m, &h)
+            );
+            let others: Vec<&str> = ws
+                .iter()
+                .filter(|o| {
+                    o.condition != Condition::Healthy
+                        && o.condition != w.condition
+                        && overlap(o.ticks, w.ticks)
+                })
+                .map(|o| condition_words(o.condition))
+                .collect();
+            if let Some(slot) = per.get_mut(entry) {
+                if overlap(w.ticks, h.ticks) {
+                    slot.2.push(text);
+                } else if others.is_empty() {
+                    slot.1.push(text);
+                } else {
+                    slot.1
+                        .push(format!("{text}; shares ticks with {}", others.join(", ")));
+                }
+            }
+        }
+    }
+    for (cond, yes, no) in per {
+        let title = format!("diagnosis: {}", condition_words(cond));
+        let id = format!("diagnosis_{}", condition_words(cond).replace(' ', "_"));
+        let c = if yes.is_empty() {
+            Check::worded(&d.name, &id, &title, Status::Warn, "not detectable", Corner::Stated("every corner".into()))
+                .noted(format!("its windows share ticks with the healthy one (guard, rounding and ±{} ticks of jitter included): {}", g.jitter_ticks, no.join("; ")))
+        } else {
+            Check::worded(
+                &d.name,
+                &id,
+                &title,
+                Status::Pass,
+                "detectable",
+                Corner::Stated("every corner".into()),
+            )
+            .noted(yes.join("; "))
+        };
+        out.checks.push(c);
+    }
+    Ok(())
+}
+
+/// The constant the firmware's tables need beside them.
+pub fn tick_constant(board: &Board) -> Constant {
+    Constant::new(
+        "",
+        "TICK_HZ",
+        libm::roundf(board.tick.value()) as u32,
+        "timer tick rate of every *_TICKS constant and diagnosis window, Hz",
+    )
+}

@@ -1,0 +1,203 @@
+//! One driver through the whole analysis: its corner box, the values it sizes, its figures at
+//! every vertex, and the self-heating iteration that ties them together (see
+//! [`super::heating`]). Everything here reads the typed board; the checks then read the run.
+
+use super::board::{Board, DriverBoard};
+use super::corners::{Axis, Point, Rises, Space};
+use super::figures::{self, Context, Figures};
+use super::heating;
+use super::sizing::{self, HoldChoice, ZenerChoice};
+use super::HostError;
+use crate::units::Amps;
+use std::format;
+use std::vec::Vec;
+
+/// The hottest any part may be taken by self-heating, °C: the library's models stop at 250 °C.
+pub const HOTTEST_PART_C: f32 = 240.0;
+
+/// One driver, analysed.
+#[derive(Debug, Clone)]
+pub struct DriverRun {
+    /// The driver with its sized values filled in.
+    pub d: DriverBoard,
+    /// Its corner box (with the final self-heating).
+    pub space: Space,
+    /// The self-heating used for the box.
+    pub rises: Rises,
+    /// Whether the self-heating settled within [`heating::MAX_PASSES`] and stayed inside
+    /// [`HOTTEST_PART_C`].
+    pub settled: bool,
+    /// The zener sizing, if the file asked for it.
+    pub zener: Option<ZenerChoice>,
+    /// The hold sizing, if the driver holds.
+    pub hold: Option<HoldChoice>,
+    /// The release current of the magnetic circuit (its lowest value), if given.
+    pub release_current: Option<Amps>,
+    /// The operate current of the magnetic circuit (its highest value), if given.
+    pub operate_current: Option<Amps>,
+    /// The vertices of the box.
+    pub points: Vec<Point>,
+    /// The figures at each vertex.
+    pub figures: Vec<Figures>,
+}
+
+impl DriverRun {
+    /// The context to evaluate more points of this driver (Monte Carlo, plots).
+    pub fn context<'a>(&'a self, board: &'a Board) -> Context<'a> {
+        Context {
+            board,
+            d: &self.d,
+            release_current: self.release_current,
+            hold: self.hold.and_then(|h| h.plan),
+            winding: self.space.range(Axis::Winding),
+        }
+    }
+}
+
+/// A model refusal at a corner, located at the driver's clamp.
+pub fn refused(
+    board: &Board,
+    d: &DriverBoard,
+    space: &Space,
+    p: &Point,
+    e: crate::Error,
+) -> HostError {
+    board.fault(
+        &format!("{}.clamp", d.field),
+        format!(
+            "at the corner {} the model refuses it: {e}",
+            space.describe(p)
+        ),
+    )
+}
+
+/// The magnetic circuit's release and operate currents: the datasheet voltage over the coil
+/// resistance at its reference temperature, at the end of the resistance tolerance that makes
+/// each worst (release: lowest current, R high; operate: highest current, R low).
+fn magnetic(d: &DriverBoard) -> Result<(Option<Amps>, Option<Amps>), crate::Error> {
+    let r = d.coil.resistance_ref().value();
+    let rel = d
+        .release
+        .map(|v| Amps::new(v.value() / (r * (1.0 + d.r_tol))))
+        .transpose()?;
+    let op = d
+        .operate
+        .map(|v| Amps::new(v.value() / (r * (1.0 - d.r_tol))))
+        .transpose()?;
+    Ok((rel, op))
+}
+
+/// The figures at every point.
+///
+/// # Errors
+/// A model refusal at a point, located at the driver.
+pub fn sweep(cx: &Context<'_>, space: &Space, points: &[Point]) -> Result<Vec<Figures>, HostError> {
+    points
+        .iter()
+        .map(|p| figures::figures_at(cx, p).map_err(|e| refused(cx.board, cx.d, space, p, e)))
+        .collect()
+}
+
+/// The rises limited so no part leaves the models' range (and whether any had to be).
+fn capped(board: &Board, r: Rises) -> (Rises, bool) {
+    let room = HOTTEST_PART_C - board.ambient.1.celsius();
+    let c = Rises {
+        diode: r.diode.min(room),
+        breakdown: r.breakdown.min(room),
+        switch: r.switch.min(room),
+    };
+    (c, c != r)
+}
+
+/// The zener choice for `d` over `points` (None when the file gives its voltage).
+fn zener_for(
+    board: &Board,
+    d: &DriverBoard,
+    rel: Option<Amps>,
+    space: &Space,
+    points: &[Point],
+) -> Result<Option<ZenerChoice>, HostError> {
+    if !sizing::zener_is_auto(d) {
+        return Ok(None);
+    }
+    let limit = d.max_release_time.map(|t| t.value());
+    let release_ok = |cand: &DriverBoard| -> Result<bool, crate::Error> {
+        let (Some(limit), Some(_)) = (limit, rel) else {
+            return Ok(true);
+        };
+        let cx = Context {
+            board,
+            d: cand,
+            release_current: rel,
+            hold: None,
+            winding: space.range(Axis::Winding),
+        };
+        for p in points {
+            if figures::release_at(&cx, p)?.is_some_and(|t| t > limit) {
+                return Ok(false);
+            }
+        }
+        Ok(true)
+    };
+    sizing::size_zener(d, points, &release_ok)
+        .map(Some)
+        .map_err(|e| {
+            board.fault(
+                &format!("{}.clamp.voltage", d.field),
+                format!("sizing the zener, the model refuses a candidate: {e}"),
+            )
+        })
+}
+
+/// Analyses driver `d`.
+///
+/// # Errors
+/// A model refusal at a corner, located at the driver.
+pub fn run_driver(board: &Board, d: &DriverBoard) -> Result<DriverRun, HostError> {
+    let (release_current, operate_current) = magnetic(d)
+        .map_err(|e| board.fault(&format!("{}.coil.must_release", d.field), format!("{e}")))?;
+    let mut rises = Rises::default();
+    let mut pass = 0usize;
+    loop {
+        pass += 1;
+        let (used, was_capped) = capped(board, rises);
+        let space = Space::for_driver(board, d, used);
+        let points = space.vertices();
+        let zener = zener_for(board, d, release_current, &space, &points)?;
+        let sized = match zener {
+            Some(z) => sizing::with_zener(d, z.chosen),
+            None => d.clone(),
+        };
+        let hold = sizing::size_hold(&sized, &points, board.pwm_clock).map_err(|e| {
+            board.fault(
+                &format!("{}.hold", d.field),
+                format!("sizing the hold, the model refuses it: {e}"),
+            )
+        })?;
+        let cx = Context {
+            board,
+            d: &sized,
+            release_current,
+            hold: hold.and_then(|h| h.plan),
+            winding: space.range(Axis::Winding),
+        };
+        let figures = sweep(&cx, &space, &points)?;
+        let next = heating::rises(&sized, &figures);
+        let done = heating::settled(&next, &rises);
+        if done || pass >= heating::MAX_PASSES {
+            return Ok(DriverRun {
+                d: sized,
+                space,
+                rises: used,
+                settled: done && !was_capped,
+                zener,
+                hold,
+                release_current,
+                operate_current,
+                points,
+                figures,
+            });
+        }
+        rises = next;
+    }
+}

@@ -1,0 +1,96 @@
+//! How many avalanche switch-offs in a row a switch survives.
+//!
+//! Model (common practice for avalanche-rated MOSFETs): the single-pulse rating E_AS holds
+//! for a pulse that starts at a 25 °C junction and falls linearly to zero for a start at the
+//! maximum junction temperature, E_allowed(T) = E_AS·(T_jmax − T)/(T_jmax − 25 °C), and E_AS
+//! itself below 25 °C. A pulse of energy E is survivable from a start temperature up to
+//! T_lim = T_jmax − (E/E_AS)·(T_jmax − 25 °C). A second pulse and every one after it needs a
+//! repetitive rating E_AR ≥ E (without one, the datasheet allows one pulse), and starts hotter:
+//!
+//! - with a lumped thermal capacitance C (J/K), each pulse raises the junction by E/C at once
+//!   (the pulse is short against R_th·C) and the junction cools with τ = R_th·C between pulses
+//!   at interval T = 1/f, so before pulse k it is at
+//!   T_k = T₀ + (E/C)·a·(1 − a^(k−1))/(1 − a), a = e^(−T/τ) (a = 1, no cooling, without a rate);
+//!   the count is the largest k with T_k ≤ T_lim, in closed form;
+//! - without C, the start of every pulse is bounded by the average-heating level
+//!   T₀ + E·f·R_th (in any linear thermal network the temperature just before a pulse is below
+//!   the average of its periodic steady state), so the switch survives repetitively when that
+//!   is within T_lim, and one pulse otherwise.
+//!
+//! Work: constant (one logarithm).
+
+use crate::host::board::SwitchBoard;
+use crate::units::Hertz;
+
+/// The count that stands for "any number, within the thermal limits".
+pub const REPETITIVE: f32 = 1.0e6;
+
+/// Pulses survived in a row by a switch whose junction starts at `start_c` (°C), for pulses of
+/// `energy` J at `rate` (if known); None without a single-pulse rating.
+pub fn survivable(sw: &SwitchBoard, rate: Option<Hertz>, energy: f32, start_c: f32) -> Option<f32> {
+    let e_as = sw.energy_single?.value();
+    let tj_max = sw.junction_max?.celsius();
+    let span = tj_max - 25.0;
+    let allowed = |t: f32| {
+        if t <= 25.0 {
+            e_as
+        } else {
+            e_as * (tj_max - t) / span
+        }
+    };
+    if !(energy <= allowed(start_c)) {
+        return Some(0.0);
+    }
+    let Some(e_ar) = sw.energy_repetitive.map(|e| e.value()) else {
+        return Some(1.0);
+    };
+    if !(energy <= e_ar) {
+        return Some(1.0);
+    }
+    // energy ≤ allowed(start) ≤ E_AS here, so T_lim ≥ 25 °C.
+    let t_lim = tj_max - energy / e_as * span;
+    let headroom = t_lim - start_c;
+    match (sw.thermal_capacitance, rate, sw.thermal_resistance) {
+        (Some(c), Some(f), Some(r)) => Some(count_cooling(
+            energy / c,
+            -1.0 / (f.value() * r * c),
+            headroom,
+        )),
+        (Some(c), _, _) => Some(count_adiabatic(energy / c, headroom)),
+        (None, Some(f), Some(r)) => Some(if energy * f.value() * r <= headroom {
+            REPETITIVE
+        } else {
+            1.0
+        }),
+        _ => Some(1.0),
+    }
+}
+
+/// Pulses with no cooling between them: T₀ + (k − 1)·ΔT ≤ T_lim.
+fn count_adiabatic(dt: f32, headroom: f32) -> f32 {
+    if !(dt > 0.0) {
+        return REPETITIVE;
+    }
+    (libm::floorf(headroom / dt) + 1.0).min(REPETITIVE)
+}
+
+/// Pulses with first-order cooling, `ln_a` = −T/τ = ln a (< 0).
+fn count_cooling(dt: f32, ln_a: f32, headroom: f32) -> f32 {
+    let a = libm::expf(ln_a);
+    // Steady state before a pulse: ΔT·a/(1 − a).
+    let one_minus_a = -libm::expm1f(ln_a);
+    if !(one_minus_a > 0.0) {
+        return count_adiabatic(dt, headroom);
+    }
+    if dt * a / one_minus_a <= headroom {
+        return REPETITIVE;
+    }
+    // ΔT·a·(1 − a^m)/(1 − a) ≤ headroom ⇔ a^m ≥ 1 − headroom·(1 − a)/(ΔT·a) = x, m = k − 1.
+    let x = 1.0 - headroom * one_minus_a / (dt * a);
+    if !(x > 0.0) {
+        return REPETITIVE;
+    }
+    let m = libm::floorf(libm::logf(x) / ln_a);
+    // Bounds are constants in order and m is finite (x > 0, ln a < 0): clamp cannot panic.
+    (m + 1.0).clamp(1.0, REPETITIVE)
+}

@@ -1,0 +1,323 @@
+//! The design file as written: the TOML schema, quantities still strings with their units, and
+//! the spans to locate every error. Nothing here computes physics; [`super::board`] converts it
+//! once into a typed, validated board.
+//!
+//! `examples/greenhouse.toml` is the annotated reference. Every dimensional value is a string
+//! with its unit ([`quantity`]); unknown fields are errors; a wrong type is reported at the field
+//! that holds it (`driver[0].count: invalid type…`).
+
+pub mod locate;
+pub mod quantity;
+
+pub use locate::{Places, Reader};
+
+use super::HostError;
+use serde::Deserialize;
+use std::string::{String, ToString};
+use std::vec::Vec;
+use toml::Spanned;
+
+/// A quantity as written, with its position.
+pub type Q = Spanned<String>;
+
+/// The whole design file.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DesignFile {
+    /// Title for the report.
+    pub title: String,
+    /// Timer tick rate of the generated wait times and diagnosis windows.
+    pub tick_rate: Q,
+    /// Clock of the PWM timer (for the hold's counts); optional.
+    pub pwm_timer_clock: Option<Q>,
+    /// Temperatures.
+    pub environment: Environment,
+    /// Supplies, referred to by name.
+    #[serde(default)]
+    pub supply: Vec<Supply>,
+    /// Coil drivers.
+    #[serde(default)]
+    pub driver: Vec<Driver>,
+    /// The microcontroller pins' common data.
+    pub pins: Option<Pins>,
+    /// Inputs into the pins.
+    #[serde(default)]
+    pub input: Vec<Input>,
+}
+
+/// Temperatures of the enclosure and the coils' self-heating.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Environment {
+    /// Coldest ambient.
+    pub ambient_min: Q,
+    /// Hottest ambient.
+    pub ambient_max: Q,
+    /// How far a coil's winding can rise above ambient when on.
+    pub coil_self_heating: Q,
+}
+
+/// A supply rail.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Supply {
+    /// Name the drivers use.
+    pub name: Spanned<String>,
+    /// Nominal voltage.
+    pub nominal: Q,
+    /// Lowest voltage.
+    pub min: Q,
+    /// Highest voltage.
+    pub max: Q,
+}
+
+/// A coil driver.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Driver {
+    /// Name, also the name of its generated constants' module.
+    pub name: Spanned<String>,
+    /// How many identical drivers.
+    #[serde(default = "one")]
+    pub count: Spanned<u32>,
+    /// Name of its supply.
+    pub supply: Spanned<String>,
+    /// "low" (default) or "high": where the switch sits.
+    pub side: Option<Spanned<String>>,
+    /// The coil.
+    pub coil: CoilSpec,
+    /// The switch.
+    pub switch: SwitchSpec,
+    /// The suppression.
+    pub clamp: ClampSpec,
+    /// Longest acceptable time from switch-off to release; optional requirement.
+    pub max_release_time: Option<Q>,
+    /// Switch-offs per second at most, for average power; optional.
+    pub switching_rate: Option<Q>,
+    /// PWM peak-and-hold, if used.
+    pub hold: Option<HoldSpec>,
+    /// Diagnosis, if wanted.
+    pub diagnosis: Option<DiagnosisSpec>,
+}
+
+fn one() -> Spanned<u32> {
+    Spanned::new(0..0, 1)
+}
+
+/// The coil's data.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct CoilSpec {
+    /// Inductance.
+    pub inductance: Q,
+    /// Inductance tolerance (± %).
+    pub inductance_tolerance: Q,
+    /// Winding resistance at `resistance_at`.
+    pub resistance: Q,
+    /// Resistance tolerance (± %).
+    pub resistance_tolerance: Q,
+    /// Temperature of the stated resistance (copper, IEC 60028), or "none" for a resistance
+    /// that does not change with temperature.
+    pub resistance_at: Q,
+    /// Must-operate voltage at `resistance_at`: a share of the nominal supply ("60 %") or a
+    /// voltage ("14.4 V"); optional.
+    pub must_operate: Option<Q>,
+    /// Must-release voltage, the same way; optional.
+    pub must_release: Option<Q>,
+    /// Mechanical release time; optional.
+    pub mechanical_release: Option<Q>,
+}
+
+/// The switch's ratings.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct SwitchSpec {
+    /// Voltage rating (for example V(BR)DSS min).
+    pub rating: Q,
+    /// Share of the rating the peak may reach.
+    pub derating: Q,
+    /// Voltage at which it avalanches (what an open clamp lets the switch reach).
+    pub avalanche: Q,
+    /// Part-to-part tolerance of the avalanche voltage (± %); optional.
+    pub avalanche_tolerance: Option<Q>,
+    /// Temperature coefficient of the avalanche voltage (%/K); optional.
+    pub avalanche_tempco: Option<Q>,
+    /// Single-pulse avalanche energy rating at a 25 °C start; optional.
+    pub avalanche_energy: Option<Q>,
+    /// Repetitive avalanche energy rating; optional.
+    pub avalanche_energy_repetitive: Option<Q>,
+    /// Junction-to-ambient thermal resistance; optional.
+    pub thermal_resistance: Option<Q>,
+    /// Lumped junction thermal capacitance (J/K), for counting avalanche pulses; optional.
+    pub thermal_capacitance: Option<Q>,
+    /// Maximum junction temperature (needed with an energy rating or a thermal resistance).
+    pub junction_max: Option<Q>,
+    /// On-resistance, for its conduction loss; optional.
+    pub on_resistance: Option<Q>,
+}
+
+/// The suppression: its kind, its diode, and its breakdown part (the zener, TVS, varistor or
+/// switch clamp, whichever the kind has).
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ClampSpec {
+    /// One of: diode, resistor+diode, zener+diode, switched-freewheel, tvs-across-coil,
+    /// varistor, tvs-across-switch, switch-clamp, avalanche, h-bridge, rc-snubber.
+    pub kind: Spanned<String>,
+    /// "silicon", "schottky", or a fixed drop such as "0.7 V" (the kinds with a diode).
+    pub diode: Option<Q>,
+    /// Part-to-part spread of the diode's drop (± mV); optional.
+    pub diode_spread: Option<Q>,
+    /// Diode junction-to-ambient thermal resistance, for its self-heating; optional.
+    pub diode_thermal_resistance: Option<Q>,
+    /// The breakdown part's voltage at its test current ("auto" sizes a zener).
+    pub voltage: Option<Q>,
+    /// Its part-to-part tolerance (± %); optional.
+    pub tolerance: Option<Q>,
+    /// Its test current.
+    pub test_current: Option<Q>,
+    /// Its dynamic resistance.
+    pub dynamic_resistance: Option<Q>,
+    /// Its temperature coefficient (%/K); optional.
+    pub tempco: Option<Q>,
+    /// Its continuous power rating; optional.
+    pub power_rating: Option<Q>,
+    /// Its single-pulse energy rating; optional.
+    pub energy_rating: Option<Q>,
+    /// Its junction-to-ambient thermal resistance, for its self-heating; optional.
+    pub thermal_resistance: Option<Q>,
+    /// A varistor's nonlinearity exponent α (a number).
+    pub exponent: Option<Q>,
+    /// A switch clamp's transconductance K (A/V²), for its overdrive; optional.
+    pub transconductance: Option<Q>,
+    /// The switch's gate threshold (with `transconductance`).
+    pub gate_threshold: Option<Q>,
+    /// Series resistor (resistor+diode, rc-snubber) or the bypass switch's on-resistance
+    /// (switched-freewheel).
+    pub resistor: Option<Q>,
+    /// Snubber capacitor (rc-snubber).
+    pub capacitor: Option<Q>,
+}
+
+/// PWM peak-and-hold.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct HoldSpec {
+    /// Current to reach before holding.
+    pub pull_in_current: Q,
+    /// Mean current to hold.
+    pub hold_current: Q,
+    /// PWM frequency, or "auto" to meet `max_ripple`.
+    pub frequency: Q,
+    /// Largest peak-to-peak ripple (needed with "auto").
+    pub max_ripple: Option<Q>,
+}
+
+/// Diagnosis from a timed measurement of the switch-off.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct DiagnosisSpec {
+    /// Comparator thresholds across the switch.
+    #[serde(default)]
+    pub comparator: Vec<Q>,
+    /// Current-sense thresholds: pairs [upper, lower]; optional.
+    #[serde(default)]
+    pub current_sense: Vec<Vec<Q>>,
+    /// Relative guard band added to every window.
+    pub guard: Q,
+    /// Timing jitter of the firmware's measurement, in ticks.
+    pub jitter: Option<Q>,
+    /// Share of turns shorted in the shorted-turns fault.
+    pub shorted_turns: Q,
+    /// How many fault readings in a row the firmware waits for.
+    pub confirmations: Option<Spanned<u32>>,
+}
+
+/// The microcontroller pins.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Pins {
+    /// Nominal pin supply.
+    pub supply: Q,
+    /// Lowest pin supply.
+    pub supply_min: Q,
+    /// "silicon", "schottky", or a fixed drop such as "0.3 V".
+    pub clamp: Q,
+    /// Hottest microcontroller.
+    pub max_temperature: Q,
+    /// Injection limit per pin (both directions).
+    pub injection_limit: Q,
+    /// Injection limit summed over all pins.
+    pub total_injection_limit: Q,
+    /// The rail's minimum load current; optional (rail-on check).
+    pub rail_min_load: Option<Q>,
+    /// Pin leakage current; optional (with `leakage_error`).
+    pub leakage: Option<Q>,
+    /// Error voltage the leakage may cause across the resistor.
+    pub leakage_error: Option<Q>,
+    /// The unpowered rail's load as a resistance; optional (rail-off check).
+    pub rail_off_load: Option<Q>,
+    /// Voltage the unpowered rail may be pushed to.
+    pub rail_off_allowed: Option<Q>,
+}
+
+/// An input line.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct Input {
+    /// Name, also its constants' module.
+    pub name: Spanned<String>,
+    /// How many identical inputs.
+    #[serde(default = "one")]
+    pub count: Spanned<u32>,
+    /// The output-sense line of this driver (range derived from it, open-clamp case included).
+    pub sense_of: Option<Spanned<String>>,
+    /// Lowest steady signal.
+    pub signal_min: Option<Q>,
+    /// Highest steady signal.
+    pub signal_max: Option<Q>,
+    /// Lowest transient signal.
+    pub transient_min: Option<Q>,
+    /// Highest transient signal.
+    pub transient_max: Option<Q>,
+    /// Transient duration.
+    pub transient_width: Option<Q>,
+    /// Series resistor, or "auto".
+    pub series_resistor: Q,
+}
+
+/// True when the quantity is written "auto".
+pub fn is_auto(q: &Q) -> bool {
+    q.get_ref().trim() == "auto"
+}
+
+/// Parses the file's text.
+///
+/// # Errors
+/// A located error for malformed TOML, unknown fields, missing fields and wrong types, naming
+/// the field that holds the mistake (never the mistaken value).
+pub fn parse_file(reader: &Reader<'_>) -> Result<DesignFile, HostError> {
+    toml::from_str(reader.text).map_err(|e| {
+        let span = e.span().unwrap_or(0..0);
+        let message = e.message().trim().to_string();
+        // A wrong type or value points inside a field; an unknown or missing field is named in
+        // the message between backticks and located at its table.
+        let field = reader
+            .field_at(span.start)
+            .filter(|_| {
+                !message.starts_with("unknown field") && !message.starts_with("missing field")
+            })
+            .or_else(|| {
+                let named = message.split('`').nth(1)?;
+                let table = reader.field_at(span.start);
+                Some(match table {
+                    // The span may be the unknown key itself, already recorded under its path.
+                    Some(t) if t == named || t.ends_with(&std::format!(".{named}")) => t,
+                    Some(t) => std::format!("{t}.{named}"),
+                    None => named.to_string(),
+                })
+            })
+            .unwrap_or_default();
+        reader.error(span, &field, message)
+    })
+}
