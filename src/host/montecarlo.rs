@@ -88,7 +88,13 @@ fn summarise(run: &DriverRun, m: Metric, mut v: Vec<f32>) -> Option<Spread> {
     if v.is_empty() {
         return None;
     }
-    let worst = m.worst(&run.d, &run.points, &run.figures)?.value;
+    // A figure out of reach at some vertex (a duty above 100 %) has no finite worst to beat.
+    let unbounded = m.unbounded_when_missing() && m.missing_somewhere(&run.d, &run.figures);
+    let worst = if unbounded {
+        f32::INFINITY
+    } else {
+        m.worst(&run.d, &run.points, &run.figures)?.value
+    };
     let beyond_count = v.iter().filter(|x| beyond(m.sense(), **x, worst)).count();
     let min = v.iter().copied().fold(f32::INFINITY, f32::min);
     let max = v.iter().copied().fold(f32::NEG_INFINITY, f32::max);

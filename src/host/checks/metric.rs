@@ -189,6 +189,13 @@ impl Metric {
         worst(&p, &v, self.sense())
     }
 
+    /// True for a figure whose absence at a point means "beyond every value" (a hold duty above
+    /// 100 %, a pull-in current never reached), so its worst over the box is unbounded as soon
+    /// as one vertex lacks it.
+    pub fn unbounded_when_missing(self) -> bool {
+        matches!(self, Metric::HoldDuty | Metric::PullIn)
+    }
+
     /// True when the figure is missing at some point (where it should apply everywhere: a
     /// hold duty above 100 %, a pull-in current out of reach).
     pub fn missing_somewhere(self, d: &DriverBoard, figures: &[Figures]) -> bool {
