@@ -404,6 +404,12 @@ fn refusals_keep_their_location() {
     let (line, _, field, _) = input_error(&t);
     assert_eq!(field, "driver[1].diagnosis.comparator[0]");
     assert!(t.lines().nth(line - 1).unwrap().contains("12 V"));
+    // A winding hotter than the models' range is refused where it is set (the sweep found a
+    // 5,000 °C winding accepted and band edges saturating).
+    let t = demo.replacen("coil_self_heating = \"25 K\"", "coil_self_heating = \"5000 K\"", 1);
+    assert_eq!(input_error(&t).2, "environment.coil_self_heating");
+    let t = demo.replacen("coil_self_heating = \"25 K\"", "coil_self_heating = \"150 K\"", 1).replacen("ambient_max = \"55 °C\"", "ambient_max = \"110 °C\"", 1);
+    assert!(input_error(&t).3.contains("250 °C"));
     // Must-release above must-operate.
     let t = demo.replacen("must_release = \"10 %\"", "must_release = \"70 %\"", 1);
     assert_eq!(input_error(&t).2, "driver[0].coil.must_release");
@@ -467,4 +473,17 @@ fn zener_sizing_proposes_a_value_or_names_the_conflict() {
         .find(|c| c.subject == "drain sense" && c.id == "series_resistor_sized")
         .unwrap();
     assert!(drain.value.unwrap() > 1000.0);
+}
+
+#[test]
+fn a_plot_with_non_finite_data_is_refused_at_once() {
+    // The sweep's case: a series holding +∞ or f32::MAX did not return within 60 s.
+    let report = demo();
+    let mut p = report.drivers[0].plot.clone().unwrap();
+    for bad in [f32::INFINITY, f32::NAN] {
+        p.series[0].v[3] = bad;
+        let start = std::time::Instant::now();
+        assert!(output::svg::render(&p).is_err());
+        assert!(start.elapsed() < std::time::Duration::from_secs(1));
+    }
 }

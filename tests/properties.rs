@@ -188,6 +188,31 @@ proptest! {
     }
 
     #[test]
+    fn tolerance_helpers_never_panic_or_give_nan(dv in hostile(), k in hostile(), th in hostile(), kind in 0usize..11) {
+        // Diode spread, varistor tolerance and the comparator's crossing current, for any input.
+        for d in [Diode::Law(DiodeParams::SILICON), Diode::FixedDrop(Volts::new(0.7).unwrap())] {
+            if let Ok(v) = Volts::new(dv) {
+                if let Ok(shifted) = d.shifted(v) {
+                    ok_finite(shifted.forward_drop(Amps::new(0.1).unwrap(), t(25.0)).map(|x| x.value()))?;
+                }
+            }
+        }
+        let mov = Varistor::new(Volts::new(39.0).unwrap(), Amps::new(1e-3).unwrap(), 30.0, PerKelvin::ZERO, t(25.0)).unwrap();
+        if let Ok(m) = mov.scaled(k) {
+            ok_finite(m.voltage(Amps::new(0.1).unwrap(), t(25.0)).map(|x| x.value()))?;
+        }
+        let coil = Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap();
+        let z = Breakdown::ideal(Volts::new(40.0).unwrap()).ok();
+        if let (Some(c), Ok(v)) = (clamp_of(kind, Ohms::new(10.0).unwrap(), z, 1.0), Volts::new(th)) {
+            if let Ok(off) = SwitchOff::new(&coil, &c, Side::Low, &Operating::uniform(Volts::new(24.0).unwrap(), Amps::new(0.4).unwrap(), t(25.0))) {
+                if let Ok(i) = off.current_at_switch_voltage(v) {
+                    prop_assert!(i.value() >= 0.0 && i.value() < 0.4);
+                }
+            }
+        }
+    }
+
+    #[test]
     fn chains_of_products_never_reach_infinity(r in extreme(), i in extreme(), s in extreme(), f in extreme()) {
         // Issue: a chain of three products of valid extremes gave +∞ J. Every product is checked.
         let (Ok(r), Ok(i)) = (Ohms::new(r.abs()), Amps::new(i)) else { return Ok(()); };

@@ -8,7 +8,7 @@
 //!
 //! This is a property of the corner engine against sampling, not a check of the physics
 //! (that is in the reference tests). CI draws `KICKGUARD_WORST_CASE_SAMPLES` samples per driver
-//! (default 2000); the long run, 10⁵ per driver, is
+//! (default 10 000); the long run, 10⁵ per driver, is
 //! `KICKGUARD_WORST_CASE_SAMPLES=100000 cargo test --release --features host --test worst_case`.
 //!
 //! The microcontroller inputs have two axes (pin supply, microcontroller temperature): a dense
@@ -33,7 +33,7 @@ fn samples() -> u32 {
     std::env::var("KICKGUARD_WORST_CASE_SAMPLES")
         .ok()
         .and_then(|s| s.parse().ok())
-        .unwrap_or(2000)
+        .unwrap_or(10_000)
 }
 
 #[test]

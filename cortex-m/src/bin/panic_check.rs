@@ -115,6 +115,8 @@ fn diode() -> Result<(), Error> {
     bb((d.is(), d.n(), d.rs(), d.eg(), d.xti(), d.tnom()));
     let fixed = Diode::FixedDrop(Volts::new(bb(0.7))?);
     bb(fixed.forward_drop(i, t)?);
+    bb(fixed.shifted(Volts::new(bb(0.03))?)?);
+    bb(Diode::Law(d).shifted(Volts::new(bb(-0.03))?)?);
     let p = |a: f32, v: f32| DropPoint::new(bb(a), bb(v));
     bb(fit_two_points(
         [p(1e-3, 0.6)?, p(0.1, 0.8)?],
@@ -197,6 +199,8 @@ fn coil_and_clamps() -> Result<(), Error> {
         t,
     )?;
     bb((mov.alpha(), mov.voltage(Amps::new(bb(0.1))?, t)?));
+    let mov = bb(mov.scaled(bb(1.1))?);
+    bb(mov.reference_voltage());
     let d = if bb(true) {
         Diode::Law(DiodeParams::SCHOTTKY)
     } else {
@@ -256,6 +260,7 @@ fn coil_and_clamps() -> Result<(), Error> {
         bb(off.switch_voltage_at(i1)?);
         bb(off.output_voltage_at(i1)?);
         bb(off.time_above(Volts::new(bb(30.0))?)?);
+        bb(off.current_at_switch_voltage(Volts::new(bb(30.0))?)?);
         bb(off.time_to(i1)?);
         bb(off.decay_to(i1)?);
         bb(off.decay_to_end()?);
