@@ -406,9 +406,19 @@ fn refusals_keep_their_location() {
     assert!(t.lines().nth(line - 1).unwrap().contains("12 V"));
     // A winding hotter than the models' range is refused where it is set (the sweep found a
     // 5,000 °C winding accepted and band edges saturating).
-    let t = demo.replacen("coil_self_heating = \"25 K\"", "coil_self_heating = \"5000 K\"", 1);
+    let t = demo.replacen(
+        "coil_self_heating = \"25 K\"",
+        "coil_self_heating = \"5000 K\"",
+        1,
+    );
     assert_eq!(input_error(&t).2, "environment.coil_self_heating");
-    let t = demo.replacen("coil_self_heating = \"25 K\"", "coil_self_heating = \"150 K\"", 1).replacen("ambient_max = \"55 °C\"", "ambient_max = \"110 °C\"", 1);
+    let t = demo
+        .replacen(
+            "coil_self_heating = \"25 K\"",
+            "coil_self_heating = \"150 K\"",
+            1,
+        )
+        .replacen("ambient_max = \"55 °C\"", "ambient_max = \"110 °C\"", 1);
     assert!(input_error(&t).3.contains("250 °C"));
     // Must-release above must-operate.
     let t = demo.replacen("must_release = \"10 %\"", "must_release = \"70 %\"", 1);
