@@ -92,7 +92,7 @@ fn case_verdict() -> Result<f32, Error> {
         Verdict::Healthy => 1.0,
         Verdict::Fault(Condition::FreewheelOpen) => 2.0,
         Verdict::Fault(_) => 3.0,
-        Verdict::Ambiguous => 4.0,
+        Verdict::Ambiguous(_) => 4.0,
         Verdict::Unexplained => 5.0,
     };
     let t = |x: u32| core::hint::black_box(x);

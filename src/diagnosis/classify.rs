@@ -5,7 +5,7 @@
 //! 1. inside the healthy window → [`Verdict::Healthy`], whatever else overlaps there (a healthy
 //!    measurement is never called a fault inside its own window);
 //! 2. inside exactly one fault window → [`Verdict::Fault`] with that condition;
-//! 3. inside several → [`Verdict::Ambiguous`];
+//! 3. inside several → [`Verdict::Ambiguous`] with the set of candidates;
 //! 4. inside none → [`Verdict::Unexplained`] (outside everything the model predicts: suspect the
 //!    measurement or a fault not modelled).
 //!
@@ -38,6 +38,42 @@ impl Entry {
     };
 }
 
+/// A set of conditions, one bit per [`Condition::code`] (bit 0 healthy … bit 5 coil too hot):
+/// the candidates of an ambiguous verdict.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Candidates(pub u8);
+
+impl Candidates {
+    /// The empty set.
+    pub const NONE: Candidates = Candidates(0);
+
+    /// The set with `c` added.
+    #[inline]
+    pub const fn with(self, c: Condition) -> Candidates {
+        // code() ≤ 5: the shift stays inside the byte.
+        Candidates(self.0 | (1u8 << (c.code() & 7)))
+    }
+
+    /// True when `c` is in the set.
+    #[inline]
+    pub const fn contains(self, c: Condition) -> bool {
+        self.0 & (1u8 << (c.code() & 7)) != 0
+    }
+
+    /// How many conditions are in the set.
+    pub const fn count(self) -> u32 {
+        self.0.count_ones()
+    }
+
+    /// The conditions in the set, in [`Condition::ALL`] order.
+    pub fn iter(self) -> impl Iterator<Item = Condition> {
+        Condition::ALL
+            .into_iter()
+            .filter(move |c| self.contains(*c))
+    }
+}
+
 /// The verdict on one measurement.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -46,8 +82,8 @@ pub enum Verdict {
     Healthy,
     /// Inside exactly one fault's window.
     Fault(Condition),
-    /// Inside several fault windows and not the healthy one.
-    Ambiguous,
+    /// Inside several fault windows and not the healthy one: the candidates.
+    Ambiguous(Candidates),
     /// Inside no window at all.
     Unexplained,
 }
@@ -66,7 +102,8 @@ pub struct Windows {
     healthy: Option<(u32, u32)>,
     fault_lo: [u32; MAX_WINDOWS],
     fault_span: [u32; MAX_WINDOWS],
-    fault_condition: [Condition; MAX_WINDOWS],
+    /// Each fault window's condition as its candidate bit, 1 << code (0 in an unused slot).
+    fault_bit: [u8; MAX_WINDOWS],
     n_faults: usize,
 }
 
@@ -83,7 +120,7 @@ impl Windows {
         let mut healthy = None;
         let mut fault_lo = [0u32; MAX_WINDOWS];
         let mut fault_span = [0u32; MAX_WINDOWS];
-        let mut fault_condition = [Condition::Healthy; MAX_WINDOWS];
+        let mut fault_bit = [0u8; MAX_WINDOWS];
         let mut n_faults = 0usize;
         let mut k = 0usize;
         // Indices are checked against MAX_WINDOWS in the loop condition and before each store,
@@ -98,7 +135,8 @@ impl Windows {
                 } else {
                     fault_lo[n_faults] = e.lo;
                     fault_span[n_faults] = width.saturating_add(1);
-                    fault_condition[n_faults] = e.condition;
+                    // code() ≤ 5: the shift stays inside the byte.
+                    fault_bit[n_faults] = 1u8 << (e.condition.code() & 7);
                     // n_faults < MAX_WINDOWS here: cannot saturate.
                     n_faults = n_faults.saturating_add(1);
                 }
@@ -109,7 +147,7 @@ impl Windows {
             healthy,
             fault_lo,
             fault_span,
-            fault_condition,
+            fault_bit,
             n_faults,
         }
     }
@@ -138,6 +176,15 @@ impl Windows {
         Windows::from_entries(entries, n)
     }
 
+    /// The healthy window (lowest, highest tick), if there is one.
+    pub const fn healthy(&self) -> Option<(u32, u32)> {
+        match self.healthy {
+            // lo + width ≤ u32::MAX: width was hi − lo.
+            Some((lo, w)) => Some((lo, lo.saturating_add(w))),
+            None => None,
+        }
+    }
+
     /// The windows in use, healthy first, as entries (for reports and generated code).
     pub fn entries(&self) -> impl Iterator<Item = Entry> + '_ {
         let healthy = self.healthy.map(|(lo, w)| Entry {
@@ -149,12 +196,13 @@ impl Windows {
             .fault_lo
             .iter()
             .zip(self.fault_span.iter())
-            .zip(self.fault_condition.iter())
+            .zip(self.fault_bit.iter())
             .take(self.n_faults)
-            .map(|((&lo, &span), &c)| Entry {
+            .map(|((&lo, &span), &bit)| Entry {
                 lo,
                 hi: lo.saturating_add(span.saturating_sub(1)),
-                condition: c,
+                // A slot in use holds one bit of a known code.
+                condition: Condition::from_code(bit.trailing_zeros()).unwrap_or(Condition::Healthy),
             });
         healthy.into_iter().chain(faults)
     }
@@ -179,20 +227,28 @@ impl Windows {
                 return Verdict::Healthy;
             }
         }
-        let mut hits = 0u32;
-        let mut found = 0usize;
-        for (k, (&lo, &span)) in
-            (0..MAX_WINDOWS).zip(self.fault_lo.iter().zip(self.fault_span.iter()))
+        let mut set = 0u8;
+        for ((&lo, &span), &bit) in self
+            .fault_lo
+            .iter()
+            .zip(self.fault_span.iter())
+            .zip(self.fault_bit.iter())
         {
+            // Branch-free: the slot's bit where the reading is inside, else nothing.
             let inside = ticks.wrapping_sub(lo) < span;
-            // At most MAX_WINDOWS hits: the count never saturates.
-            hits = hits.saturating_add(inside as u32);
-            found = if inside { k } else { found };
+            set |= bit & (inside as u8).wrapping_neg();
         }
-        match (hits, self.fault_condition.get(found)) {
-            (1, Some(c)) => Verdict::Fault(*c),
-            (0, _) | (_, None) => Verdict::Unexplained,
-            _ => Verdict::Ambiguous,
+        // One bit set: x & (x − 1) clears the lowest bit (no population count, which a core
+        // without one would run in software). set ≥ 1 there, so the subtraction cannot wrap.
+        if set == 0 {
+            Verdict::Unexplained
+        } else if set & set.wrapping_sub(1) == 0 {
+            match Condition::from_code(set.trailing_zeros()) {
+                Some(c) => Verdict::Fault(c),
+                None => Verdict::Unexplained,
+            }
+        } else {
+            Verdict::Ambiguous(Candidates(set))
         }
     }
 }

@@ -25,12 +25,14 @@ use crate::units::{Amps, Henries, Ohms, Seconds, Volts};
 pub struct DecayFit {
     /// Time constant τ.
     pub tau: Seconds,
-    /// Vc/R: the clamp voltage divided by the loop resistance (a current; ≥ 0 for a clamp).
+    /// V_c/R_loop: the clamp voltage (extrapolated to zero current) divided by the loop
+    /// resistance R + r_s (a current; ≥ 0 for a clamp).
     pub clamp_over_r: f32,
 }
 
 impl DecayFit {
-    /// Inductance L = τ·R for a loop resistance `r`.
+    /// Inductance L = τ·R for a loop resistance `r` (the whole loop: coil plus the clamp's slope;
+    /// see [`DecayFit::recover`]).
     ///
     /// # Errors
     /// A product beyond the quantity bounds → the errors of [`Henries::new`].
@@ -68,16 +70,22 @@ impl DecayFit {
     }
 }
 
-/// Fits τ and Vc/R to `samples` (coil current every `interval`, falling).
+/// Fits τ and V_c/R to `samples` (coil current every `interval`, falling overall; noise that
+/// makes some pairs rise is fine).
+///
+/// τ is L/(R + r_s) and V_c the clamp's voltage extrapolated to zero current, where R is the
+/// coil's resistance and r_s the clamp's slope resistance (a zener's dynamic resistance, a
+/// series resistor): recover L and V_c with [`DecayFit::recover`] and both resistances, not
+/// with τ·R (off by r_s/R).
 ///
 /// Accuracy: exact for noise-free samples of a constant-clamp decay, to f32 rounding (the tests
 /// measure ~1e-4 relative on τ); noise adds the usual least-squares scatter.
 ///
 /// # Errors
 /// Fewer than 3 samples → [`Reason::TooFew`] on `"samples"`; `interval` = 0 →
-/// [`Reason::NotPositive`] on `"sample interval"`; samples not strictly decreasing →
-/// [`Reason::NotDecreasing`] on `"samples"`; a fit with α outside (0, 1) →
-/// [`Reason::Inconsistent`] on `"samples"`.
+/// [`Reason::NotPositive`] on `"sample interval"`; a last sample not below the first →
+/// [`Reason::NotDecreasing`] on `"samples"`; all pairs alike (no spread to fit) or a fit with α
+/// outside (0, 1) → [`Reason::Inconsistent`] on `"samples"`.
 ///
 /// ```
 /// use kickguard::diagnosis::fit::fit_decay;
@@ -96,8 +104,14 @@ pub fn fit_decay(samples: &[Amps], interval: Seconds) -> Result<DecayFit, Error>
     if !(h > 0.0) {
         return Err(Error::new("sample interval", Reason::NotPositive));
     }
+    let (Some(first), Some(last)) = (samples.first(), samples.last()) else {
+        return Err(Error::new("samples", Reason::TooFew));
+    };
     if samples.len() < 3 {
         return Err(Error::new("samples", Reason::TooFew));
+    }
+    if !(last.value() < first.value()) {
+        return Err(Error::new("samples", Reason::NotDecreasing));
     }
     // Consecutive pairs (i[k], i[k+1]).
     let pairs = || {
@@ -109,9 +123,6 @@ pub fn fit_decay(samples: &[Amps], interval: Seconds) -> Result<DecayFit, Error>
     let mut n = 0.0f32;
     let (mut mx, mut my) = (0.0f32, 0.0f32);
     for (a, b) in pairs() {
-        if !(b < a) {
-            return Err(Error::new("samples", Reason::NotDecreasing));
-        }
         mx += a;
         my += b;
         n += 1.0;
@@ -124,6 +135,9 @@ pub fn fit_decay(samples: &[Amps], interval: Seconds) -> Result<DecayFit, Error>
         sxx += dx * dx;
         sxy += dx * dy;
     }
+    if !(sxx > 0.0 && sxx.is_finite()) {
+        return Err(Error::new("samples", Reason::Inconsistent));
+    }
     let alpha = sxy / sxx;
     if !(alpha > 0.0 && alpha < 1.0) {
         return Err(Error::new("samples", Reason::Inconsistent));
@@ -135,6 +149,37 @@ pub fn fit_decay(samples: &[Amps], interval: Seconds) -> Result<DecayFit, Error>
         tau: Seconds::new(tau)?,
         clamp_over_r: crate::error::result("clamp voltage over R", clamp_over_r)?,
     })
+}
+
+/// L and the clamp's voltage recovered from a fit with the loop's resistances known.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Recovered {
+    /// L = τ·(R + r_s).
+    pub inductance: Henries,
+    /// V_c = (V_c/R_loop)·(R + r_s), the clamp's voltage extrapolated to zero current.
+    pub clamp_voltage: Volts,
+}
+
+impl DecayFit {
+    /// L and V_c from the fit, the coil's resistance `coil` (from the on-current: V/I) and the
+    /// clamp's slope resistance `clamp_slope` (the zener's dynamic resistance, a series
+    /// resistor; a diode's N·Vt/I is small beside a coil's R): the loop is
+    /// L·di/dt = −(V_c + (R + r_s)·i), so τ = L/(R + r_s).
+    ///
+    /// # Errors
+    /// A loop resistance of zero → [`Reason::NotPositive`] on `"loop resistance"`; results
+    /// beyond the quantity bounds → the errors of [`Henries::new`] / [`Volts::new`].
+    pub fn recover(&self, coil: Ohms, clamp_slope: Ohms) -> Result<Recovered, Error> {
+        let r = coil.value() + clamp_slope.value();
+        if !(r > 0.0) {
+            return Err(Error::new("loop resistance", Reason::NotPositive));
+        }
+        Ok(Recovered {
+            inductance: Henries::new(self.tau.value() * r)?,
+            clamp_voltage: Volts::new(self.clamp_over_r * r)?,
+        })
+    }
 }
 
 /// A fixed-capacity sample buffer the firmware fills from its ADC interrupt.

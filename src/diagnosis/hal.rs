@@ -1,12 +1,16 @@
-//! Timing the flyback on real pins with `embedded-hal` 1.0.
+//! Timing the flyback on real pins with `embedded-hal` 1.0, in real time.
 //!
-//! [`measure_flyback`] switches the coil off through an output pin (drive low = off), then polls a
-//! sense input (high while the switch node is above the comparator's threshold) every `step_ns`
-//! with a delay source, until the input falls or the timeout expires. The result is the number of
-//! polling steps the input stayed high (the caller's tick unit for [`super::Windows::classify`]
-//! when `step_ns` is the tick period). Polling resolution is one step; the pin-read time adds to
-//! each step, so calibrate `step_ns` on the target or use a timer-capture peripheral where one
-//! exists.
+//! Two ways to keep time, both in the firmware's timer ticks (the unit of the windows):
+//! - [`time_flyback`] and [`time_current_window`] read a free-running hardware counter through
+//!   [`TickCounter`], which the firmware implements on a timer; the elapsed time is a wrapping
+//!   difference of two reads, exact to one tick however long each pin read takes;
+//! - [`measure_flyback`] polls with a delay and counts each poll as a stated number of ticks,
+//!   the poll period measured on the target once (its pin reads and loop included), for a
+//!   firmware without a free timer.
+//!
+//! The drain comparator (a sense input high while the voltage across the switch is above its
+//! threshold) and the current-sense window (two comparators, high while the current is above
+//! the upper and above the lower threshold) are both supported.
 
 use core::fmt;
 use embedded_hal::delay::DelayNs;
@@ -23,7 +27,7 @@ pub enum MeasureError<O, I> {
     /// The input was still high after the timeout (the flyback never ended: a stuck comparator,
     /// or a decay far longer than any window).
     Timeout,
-    /// `step_ns` was zero.
+    /// A poll period (`poll_ns` or `poll_ticks`) was zero.
     ZeroStep,
 }
 
@@ -33,45 +37,134 @@ impl<O: fmt::Debug, I: fmt::Debug> fmt::Display for MeasureError<O, I> {
             MeasureError::Output(e) => write!(f, "coil drive pin error: {e:?}"),
             MeasureError::Input(e) => write!(f, "sense pin error: {e:?}"),
             MeasureError::Timeout => f.write_str("flyback did not end before the timeout"),
-            MeasureError::ZeroStep => f.write_str("polling step must be greater than zero"),
+            MeasureError::ZeroStep => f.write_str("poll period must be greater than zero"),
         }
     }
 }
 
 impl<O: fmt::Debug, I: fmt::Debug> core::error::Error for MeasureError<O, I> {}
 
-/// Switches the coil off and counts the steps of `step_ns` during which `sense` stays high, up to
-/// `timeout_steps`. A sense input already low right after switch-off returns 0 (no flyback seen:
-/// an open coil, or a decay shorter than one step).
+/// A free-running hardware counter in the firmware's timer ticks (wrapping at 2³²): the
+/// firmware implements it on a timer peripheral.
+pub trait TickCounter {
+    /// The counter now.
+    fn ticks(&mut self) -> u32;
+}
+
+/// Waits while `pin` is high, at most `timeout` ticks after `start`; returns the elapsed ticks
+/// at the first low read.
+/// A counter that does not advance cannot hang it: after [`POLLS_PER_TICK`] polls per tick of
+/// the timeout (a poll far faster than any real tick) it is a timeout too.
+fn wait_low<I: InputPin, C: TickCounter, OE>(
+    pin: &mut I,
+    counter: &mut C,
+    start: u32,
+    timeout: u32,
+) -> Result<u32, MeasureError<OE, I::Error>> {
+    let max_polls = (timeout as u64 + 1).saturating_mul(POLLS_PER_TICK);
+    let mut polls = 0u64;
+    while polls < max_polls {
+        let high = pin.is_high().map_err(MeasureError::Input)?;
+        // Wrapping difference: exact across one wrap of the counter.
+        let elapsed = counter.ticks().wrapping_sub(start);
+        if !high {
+            return Ok(elapsed);
+        }
+        if elapsed > timeout {
+            return Err(MeasureError::Timeout);
+        }
+        // polls < max_polls ≤ u64::MAX: cannot saturate.
+        polls = polls.saturating_add(1);
+    }
+    Err(MeasureError::Timeout)
+}
+
+/// Polls per tick of a timeout after which a counter that does not advance counts as a
+/// timeout (a 1 GHz core polling a 32 kHz timer makes about 3·10⁴ polls a tick).
+pub const POLLS_PER_TICK: u64 = 1 << 20;
+
+/// Switches the coil off (drive low) and returns the ticks until the drain comparator `sense`
+/// falls, read from `counter`. A sense input already low returns about 0 (no flyback seen: an
+/// open coil, or a decay shorter than one tick).
+///
+/// Work: one counter read and one pin read per loop, until the input falls or `timeout_ticks`
+/// have elapsed (bounded by the hardware counter, not by a loop count).
 ///
 /// # Errors
 /// [`MeasureError::Output`] / [`MeasureError::Input`] with the pin's own error;
-/// [`MeasureError::Timeout`] when the input is still high after `timeout_steps` steps;
-/// [`MeasureError::ZeroStep`] for `step_ns` = 0.
+/// [`MeasureError::Timeout`] when the input is still high after `timeout_ticks`.
+pub fn time_flyback<O, I, C>(
+    drive: &mut O,
+    sense: &mut I,
+    counter: &mut C,
+    timeout_ticks: u32,
+) -> Result<u32, MeasureError<O::Error, I::Error>>
+where
+    O: OutputPin,
+    I: InputPin,
+    C: TickCounter,
+{
+    drive.set_low().map_err(MeasureError::Output)?;
+    let start = counter.ticks();
+    wait_low(sense, counter, start, timeout_ticks)
+}
+
+/// Switches the coil off and returns the ticks from the upper current comparator falling to the
+/// lower one falling (both high while the current is above their thresholds): the
+/// current-sense measurement [`super::Measurement::BetweenCurrents`]. If the current starts
+/// below the upper threshold, timing starts at switch-off.
+///
+/// # Errors
+/// As [`time_flyback`]; the timeout counts from switch-off.
+pub fn time_current_window<O, I, C>(
+    drive: &mut O,
+    upper: &mut I,
+    lower: &mut I,
+    counter: &mut C,
+    timeout_ticks: u32,
+) -> Result<u32, MeasureError<O::Error, I::Error>>
+where
+    O: OutputPin,
+    I: InputPin,
+    C: TickCounter,
+{
+    drive.set_low().map_err(MeasureError::Output)?;
+    let start = counter.ticks();
+    let t_up = wait_low(upper, counter, start, timeout_ticks)?;
+    let t_lo = wait_low(lower, counter, start, timeout_ticks)?;
+    Ok(t_lo.saturating_sub(t_up))
+}
+
+/// Switches the coil off and polls `sense` with `delay`, counting each poll as `poll_ticks`
+/// ticks: the poll period measured once on the target (delay, pin read and loop together), in
+/// ticks. Returns the ticks during which the input stayed high, at most `timeout_ticks`.
+///
+/// # Errors
+/// As [`time_flyback`]; [`MeasureError::ZeroStep`] for `poll_ns` or `poll_ticks` = 0.
 pub fn measure_flyback<O, I, D>(
     drive: &mut O,
     sense: &mut I,
     delay: &mut D,
-    step_ns: u32,
-    timeout_steps: u32,
+    poll_ns: u32,
+    poll_ticks: u32,
+    timeout_ticks: u32,
 ) -> Result<u32, MeasureError<O::Error, I::Error>>
 where
     O: OutputPin,
     I: InputPin,
     D: DelayNs,
 {
-    if step_ns == 0 {
+    if poll_ns == 0 || poll_ticks == 0 {
         return Err(MeasureError::ZeroStep);
     }
     drive.set_low().map_err(MeasureError::Output)?;
-    let mut steps = 0u32;
+    let mut ticks = 0u32;
     while sense.is_high().map_err(MeasureError::Input)? {
-        if steps >= timeout_steps {
+        if ticks >= timeout_ticks {
             return Err(MeasureError::Timeout);
         }
-        delay.delay_ns(step_ns);
-        // steps < timeout_steps ≤ u32::MAX here: cannot saturate.
-        steps = steps.saturating_add(1);
+        delay.delay_ns(poll_ns);
+        ticks = ticks.saturating_add(poll_ticks);
     }
-    Ok(steps)
+    Ok(ticks)
 }

@@ -7,10 +7,15 @@
 //!   window of measurements a healthy circuit can show and the window of each fault, found by
 //!   evaluating the clamp engine at every corner of the tolerances; whether the windows can be
 //!   told apart at all, with the gap; and the windows in timer ticks, per temperature band.
+//! - **Measurement sizing** ([`propose`]): the drain comparator a healthy switch-off never
+//!   trips and an open clamp always does, and the slowest timer that still sees it;
+//!   [`compensate`] narrows the windows with the measured supply and on-current; [`ticks`]
+//!   says in ticks what each measurement tells apart.
 //! - **Run time** ([`classify`]): the verdict on a measured tick count is integer comparisons
 //!   against those windows (no floating point, so it runs in an interrupt on a core without an
 //!   FPU); [`history`] requires N consecutive faults before the firmware acts; [`fit`] estimates
-//!   τ and the clamp voltage from a buffer of current samples; [`hal`] times the flyback with an
+//!   τ and the clamp voltage from a buffer of current samples; [`learn`] learns one unit's own
+//!   healthy window; [`hal`] times the flyback with an
 //!   output pin, a sense input and a delay (`embedded-hal` 1.0).
 //!
 //! Fault models (each replaces one part of the healthy circuit, all else equal):
@@ -27,13 +32,17 @@
 //! [`windows::winding_temperature_from_current`].
 
 pub mod classify;
+pub mod compensate;
 pub mod fit;
 pub mod hal;
 pub mod history;
+pub mod learn;
+pub mod propose;
+pub mod ticks;
 pub mod windows;
 
-pub use classify::{Verdict, Windows};
-pub use windows::{Design, Measurement};
+pub use classify::{Candidates, Verdict, Windows};
+pub use windows::{Design, Measurement, ShortedTurns, Timing};
 
 /// What state of the circuit a measurement window belongs to.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]

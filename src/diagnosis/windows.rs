@@ -1,17 +1,23 @@
 //! Configuration time: the window of measurements for the healthy circuit and for each fault,
 //! their separability, and their conversion to timer ticks.
 //!
-//! Method: corner analysis. Every measurement here is monotonic in each toleranced quantity
-//! (inductance, resistance, supply, winding and clamp temperature) over its range: the decay
-//! time grows with L, with the on-current (lower R, higher supply) and with a lower clamp
-//! voltage. So its extremes are at the 2⁵ = 32 corners, and the window is [min, max] over them.
-//! (The tests check this against a dense interior grid.) The on-current is V/R(T); the switch's
-//! own on-resistance is taken as part of the coil resistance tolerance.
+//! Method: corner analysis with every independent quantity its own axis: L and R over their
+//! tolerances, the supply, the winding's temperature, the clamp diodes' temperature, the
+//! breakdown part's temperature, the switch's temperature (for its avalanche), the clamp's
+//! breakdown tolerance and the switch avalanche's tolerance — nine axes, 2⁹ = 512 corners per
+//! window. Every measurement here is monotonic in each of them over its range (the decay time
+//! grows with L, with the on-current and with a lower clamp voltage; a comparator's time above
+//! a threshold moves the same way), so its extremes are at the corners and the window is
+//! [min, max] over them; the tests check this against dense interior sampling. The on-current
+//! is V/R(T); the switch's own on-resistance is taken as part of the coil resistance tolerance.
+//!
+//! Work: every window evaluates 512 corners, each one switch-off set-up and at most two decay
+//! integrations (bounded as [`SwitchOff::time_to`] states).
 
 use super::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
 use super::Condition;
 use crate::breakdown::Breakdown;
-use crate::clamp::{Clamp, Operating, Side, SwitchOff};
+use crate::clamp::{ActiveClamp, Clamp, Operating, Side, SwitchOff, SwitchedFreewheel};
 use crate::coil::Coil;
 use crate::error::{self, Error, Reason};
 use crate::timing::{to_ticks, to_ticks_floor};
@@ -21,10 +27,11 @@ use crate::units::{Amps, Duty, Hertz, Ohms, Seconds, Temperature, Volts};
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum Measurement {
-    /// How long the switch voltage stays above `threshold` (a comparator on a divider from the
-    /// switch node). For a plain diode clamp put the threshold above the supply.
+    /// How long the voltage across the switch stays above `threshold` (a comparator on a
+    /// divider across the switch). Put the threshold above the highest supply: across the
+    /// switch the voltage rests at the supply once the coil is off.
     SwitchAbove {
-        /// Comparator threshold, referred to the switch node.
+        /// Comparator threshold, referred to the voltage across the switch.
         threshold: Volts,
     },
     /// Time for the current to fall from `upper` to `lower` (a current-sense comparator with two
@@ -37,15 +44,58 @@ pub enum Measurement {
     },
 }
 
-/// A coil driver and its tolerances, for diagnosis.
+/// How the shorted-turns fault changes the coil.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub enum ShortedTurns {
+    /// A share f of the turns shorted, with the usual scaling: L·(1 − f)² (inductance goes
+    /// with the square of the turns) and R·(1 − f) (resistance with the wire length); 0 < f < 1.
+    Fraction(f32),
+    /// Stated changes: L and R multiplied by these (each 0 < k ≤ 1), for a winding whose
+    /// shorted-turns behaviour is known from measurement.
+    Scales {
+        /// Inductance factor.
+        inductance: f32,
+        /// Resistance factor.
+        resistance: f32,
+    },
+}
+
+impl ShortedTurns {
+    /// The (L, R) factors, validated.
+    fn factors(self) -> Result<(f32, f32), Error> {
+        match self {
+            ShortedTurns::Fraction(f) => {
+                if !(f > 0.0 && f < 1.0) {
+                    return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
+                }
+                Ok(((1.0 - f) * (1.0 - f), 1.0 - f))
+            }
+            ShortedTurns::Scales {
+                inductance,
+                resistance,
+            } => {
+                for k in [inductance, resistance] {
+                    if !(k > 0.0 && k <= 1.0) {
+                        return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
+                    }
+                }
+                Ok((inductance, resistance))
+            }
+        }
+    }
+}
+
+/// A coil driver and its tolerances, for diagnosis. Fields are public for readable literals;
+/// every function that takes a design validates it.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct Design {
     /// Nominal coil.
     pub coil: Coil,
-    /// Relative tolerance of L (0.1 = ±10 %).
+    /// Relative tolerance of L (0.1 = ±10 %), 0 … 0.5.
     pub inductance_tolerance: f32,
-    /// Relative tolerance of R at its reference temperature.
+    /// Relative tolerance of R at its reference temperature, 0 … 0.5.
     pub resistance_tolerance: f32,
     /// Lowest supply.
     pub v_supply_min: Volts,
@@ -57,16 +107,23 @@ pub struct Design {
     pub t_winding_max: Temperature,
     /// Hottest winding considered for the too-hot fault window.
     pub t_winding_fault_max: Temperature,
-    /// Coldest clamp parts.
+    /// Coldest clamp parts (diodes, breakdown part, switch).
     pub t_clamp_min: Temperature,
-    /// Hottest clamp parts.
+    /// Hottest clamp parts (each part is its own axis over this range).
     pub t_clamp_max: Temperature,
     /// The healthy clamp.
     pub clamp: Clamp,
+    /// Relative part-to-part tolerance of the clamp's breakdown voltage (zener, TVS, varistor,
+    /// active clamp), 0 … 0.3; ignored for a clamp without one.
+    pub clamp_tolerance: f32,
     /// The switch's own avalanche, which takes over when the clamp path opens.
     pub switch_avalanche: Breakdown,
-    /// Fraction of the turns shorted in the shorted-turns fault (for example 0.1).
-    pub shorted_turns: f32,
+    /// Relative tolerance of the avalanche voltage, 0 … 0.3.
+    pub avalanche_tolerance: f32,
+    /// The shorted-turns fault.
+    pub shorted: ShortedTurns,
+    /// Where the switch sits.
+    pub side: Side,
 }
 
 /// A window of measured times.
@@ -93,7 +150,8 @@ pub struct Separation {
     /// Gap relative to the healthy window's width (how many healthy widths apart); a healthy
     /// window narrower than 1 ns counts as 1 ns wide, so the figure is always finite.
     pub relative_gap: f32,
-    /// True when the gap is positive: the fault is detectable.
+    /// True when the gap is positive in seconds (before ticks, guard and jitter: see
+    /// [`Design::tick_separations`] for what the firmware can really see).
     pub detectable: bool,
 }
 
@@ -118,21 +176,63 @@ pub fn winding_temperature_from_current(
     coil.winding_temperature(Ohms::new(v_supply.value() / i)?)
 }
 
+/// The clamp with its breakdown voltage scaled by a tolerance factor `k`.
+pub(crate) fn clamp_scaled(clamp: &Clamp, k: f32) -> Result<Clamp, Error> {
+    if k == 1.0 {
+        return Ok(*clamp);
+    }
+    Ok(match *clamp {
+        Clamp::ZenerDiode { zener, diode } => Clamp::ZenerDiode {
+            zener: zener.scaled(k)?,
+            diode,
+        },
+        Clamp::TvsAcrossCoil(b) => Clamp::TvsAcrossCoil(b.scaled(k)?),
+        Clamp::AcrossSwitch(b) => Clamp::AcrossSwitch(b.scaled(k)?),
+        Clamp::Avalanche(b) => Clamp::Avalanche(b.scaled(k)?),
+        Clamp::Varistor(v) => Clamp::Varistor(v.scaled(k)?),
+        Clamp::ActiveClamp(a) => Clamp::ActiveClamp(ActiveClamp {
+            zener: a.zener.scaled(k)?,
+            ..a
+        }),
+        Clamp::SwitchedFreewheel(s) => Clamp::SwitchedFreewheel(SwitchedFreewheel {
+            zener: s.zener.scaled(k)?,
+            ..s
+        }),
+        other => other,
+    })
+}
+
+/// One corner of the nine axes, each at its low (false) or high (true) end.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct Corner(pub u32);
+
+impl Corner {
+    /// The number of corners.
+    pub(crate) const COUNT: u32 = 512;
+
+    fn pick(self, bit: u32, lo: f32, hi: f32) -> f32 {
+        if self.0 & (1 << bit) == 0 {
+            lo
+        } else {
+            hi
+        }
+    }
+}
+
 impl Design {
-    fn check(&self) -> Result<(), Error> {
-        for (name, tol) in [
-            ("inductance tolerance", self.inductance_tolerance),
-            ("resistance tolerance", self.resistance_tolerance),
+    pub(crate) fn check(&self) -> Result<(), Error> {
+        for (name, tol, max) in [
+            ("inductance tolerance", self.inductance_tolerance, 0.5),
+            ("resistance tolerance", self.resistance_tolerance, 0.5),
+            ("clamp tolerance", self.clamp_tolerance, 0.3),
+            ("avalanche tolerance", self.avalanche_tolerance, 0.3),
         ] {
             let t = error::non_negative(name, tol)?;
-            if !(t < 0.5) {
+            if !(t < max) {
                 return Err(Error::new(name, Reason::OutsideValidatedRange));
             }
         }
-        let f = error::non_negative("shorted turns", self.shorted_turns)?;
-        if !(f > 0.0 && f < 1.0) {
-            return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
-        }
+        self.shorted.factors()?;
         if !(self.v_supply_max >= self.v_supply_min && self.v_supply_min.value() > 0.0) {
             return Err(Error::new("supply range", Reason::NotIncreasing));
         }
@@ -158,33 +258,89 @@ impl Design {
         Ok(())
     }
 
-    /// The circuit of `cond`: (clamp, L scale, R scale, winding range), or None if the condition
-    /// does not apply to this clamp (a zener fault without a zener) or has no decay (coil open).
-    fn circuit(&self, cond: Condition) -> Option<(Clamp, f32, f32, Temperature, Temperature)> {
+    /// The shorted-turns fault's (L, R) factors, validated.
+    pub(crate) fn shorted_factors(&self) -> Result<(f32, f32), Error> {
+        self.shorted.factors()
+    }
+
+    /// The circuit of `cond`: (clamp before tolerance, L scale, R scale, winding range, whether
+    /// the clamp is the switch's avalanche), or None if the condition does not apply to this
+    /// clamp (a zener fault without a zener) or has no decay (coil open).
+    #[allow(clippy::type_complexity)]
+    pub(crate) fn circuit(
+        &self,
+        cond: Condition,
+    ) -> Result<Option<(Clamp, f32, f32, Temperature, Temperature, bool)>, Error> {
         let av = Clamp::Avalanche(self.switch_avalanche);
         let (tmin, tmax) = (self.t_winding_min, self.t_winding_max);
-        let f = self.shorted_turns;
-        match cond {
-            Condition::Healthy => Some((self.clamp, 1.0, 1.0, tmin, tmax)),
+        let (fl, fr) = self.shorted.factors()?;
+        let own_avalanche = matches!(self.clamp, Clamp::Avalanche(_));
+        Ok(match cond {
+            Condition::Healthy => Some((self.clamp, 1.0, 1.0, tmin, tmax, own_avalanche)),
+            // An active clamp's drain–gate zener open leaves the switch to avalanche too.
             Condition::FreewheelOpen => match self.clamp {
                 Clamp::Avalanche(_) => None,
-                _ => Some((av, 1.0, 1.0, tmin, tmax)),
+                _ => Some((av, 1.0, 1.0, tmin, tmax, true)),
             },
             Condition::ZenerShorted => match self.clamp {
                 Clamp::ZenerDiode { diode, .. } => {
-                    Some((Clamp::FreewheelDiode(diode), 1.0, 1.0, tmin, tmax))
+                    Some((Clamp::FreewheelDiode(diode), 1.0, 1.0, tmin, tmax, false))
+                }
+                Clamp::SwitchedFreewheel(s) => {
+                    Some((Clamp::FreewheelDiode(s.diode), 1.0, 1.0, tmin, tmax, false))
                 }
                 _ => None,
             },
             Condition::CoilOpen => None,
-            Condition::ShortedTurns => {
-                Some((self.clamp, (1.0 - f) * (1.0 - f), 1.0 - f, tmin, tmax))
-            }
-            Condition::CoilTooHot => Some((self.clamp, 1.0, 1.0, tmax, self.t_winding_fault_max)),
-        }
+            Condition::ShortedTurns => Some((self.clamp, fl, fr, tmin, tmax, own_avalanche)),
+            Condition::CoilTooHot => Some((
+                self.clamp,
+                1.0,
+                1.0,
+                tmax,
+                self.t_winding_fault_max,
+                own_avalanche,
+            )),
+        })
     }
 
-    fn measure(off: &SwitchOff, m: &Measurement) -> Result<f32, Error> {
+    /// The switch-off at one corner of one condition's circuit.
+    #[allow(clippy::type_complexity)]
+    pub(crate) fn corner_off(
+        &self,
+        c: (Clamp, f32, f32, Temperature, Temperature, bool),
+        k: Corner,
+    ) -> Result<SwitchOff, Error> {
+        let (clamp, l_scale, r_scale, tw_min, tw_max, avalanche) = c;
+        let (lt, rt) = (self.inductance_tolerance, self.resistance_tolerance);
+        let coil = self.coil.scaled(
+            l_scale * k.pick(0, 1.0 - lt, 1.0 + lt),
+            r_scale * k.pick(1, 1.0 - rt, 1.0 + rt),
+        )?;
+        let vs = Volts::new(k.pick(2, self.v_supply_min.value(), self.v_supply_max.value()))?;
+        let tw = Temperature::from_kelvin(k.pick(3, tw_min.kelvin(), tw_max.kelvin()))?;
+        let (c_lo, c_hi) = (self.t_clamp_min.kelvin(), self.t_clamp_max.kelvin());
+        let t_diode = Temperature::from_kelvin(k.pick(4, c_lo, c_hi))?;
+        let t_part = Temperature::from_kelvin(k.pick(5, c_lo, c_hi))?;
+        let t_switch = Temperature::from_kelvin(k.pick(6, c_lo, c_hi))?;
+        let (ct, at) = (self.clamp_tolerance, self.avalanche_tolerance);
+        let (tol, t_bd) = if avalanche {
+            (k.pick(8, 1.0 - at, 1.0 + at), t_switch)
+        } else {
+            (k.pick(7, 1.0 - ct, 1.0 + ct), t_part)
+        };
+        let op = Operating {
+            supply: vs,
+            start_current: coil.steady_current(vs, tw)?,
+            winding: tw,
+            diodes: t_diode,
+            breakdown: t_bd,
+        };
+        SwitchOff::new(&coil, &clamp_scaled(&clamp, tol)?, self.side, &op)
+    }
+
+    /// What `m` reads on the switch-off `off`.
+    pub(crate) fn measure(off: &SwitchOff, m: &Measurement) -> Result<f32, Error> {
         match *m {
             Measurement::SwitchAbove { threshold } => {
                 // A switch voltage that never reaches the threshold reads zero.
@@ -212,57 +368,26 @@ impl Design {
         }
     }
 
-    /// The window of `m` under `cond`, over every corner of the tolerances; `None` when the
+    /// The window of `m` under `cond`, over every corner of the nine axes; `None` when the
     /// condition does not apply to this clamp. A coil-open fault reads zero.
+    ///
+    /// Work: 512 corners, each one switch-off set-up and at most two decay integrations.
     ///
     /// # Errors
     /// Invalid tolerances or ranges → the error names them; errors of the clamp engine at a
-    /// corner (for example a threshold the comparator never reaches there).
+    /// corner.
     pub fn window(&self, cond: Condition, m: &Measurement) -> Result<Option<TimeWindow>, Error> {
         self.check()?;
         if cond == Condition::CoilOpen {
             let z = Seconds::raw(0.0);
             return Ok(Some(TimeWindow { min: z, max: z }));
         }
-        let Some((clamp, l_scale, r_scale, tw_min, tw_max)) = self.circuit(cond) else {
+        let Some(circuit) = self.circuit(cond)? else {
             return Ok(None);
         };
-        let (lo, hi) = (f32::INFINITY, f32::NEG_INFINITY);
-        let mut acc = (lo, hi);
-        let base = self.coil.scaled(l_scale, r_scale)?;
-        for corner in 0u32..32 {
-            let pick = |bit: u32, a: f32, b: f32| if corner & (1 << bit) == 0 { a } else { b };
-            let coil = base.scaled(
-                pick(
-                    0,
-                    1.0 - self.inductance_tolerance,
-                    1.0 + self.inductance_tolerance,
-                ),
-                pick(
-                    1,
-                    1.0 - self.resistance_tolerance,
-                    1.0 + self.resistance_tolerance,
-                ),
-            )?;
-            let vs = Volts::new(pick(
-                2,
-                self.v_supply_min.value(),
-                self.v_supply_max.value(),
-            ))?;
-            let tw = Temperature::from_kelvin(pick(3, tw_min.kelvin(), tw_max.kelvin()))?;
-            let tc = Temperature::from_kelvin(pick(
-                4,
-                self.t_clamp_min.kelvin(),
-                self.t_clamp_max.kelvin(),
-            ))?;
-            let op = Operating {
-                supply: vs,
-                start_current: coil.steady_current(vs, tw)?,
-                winding: tw,
-                diodes: tc,
-                breakdown: tc,
-            };
-            let off = SwitchOff::new(&coil, &clamp, Side::Low, &op)?;
+        let mut acc = (f32::INFINITY, f32::NEG_INFINITY);
+        for k in 0..Corner::COUNT {
+            let off = self.corner_off(circuit, Corner(k))?;
             let t = Self::measure(&off, m)?;
             acc = (acc.0.min(t), acc.1.max(t));
         }
@@ -272,8 +397,9 @@ impl Design {
         }))
     }
 
-    /// Every applicable fault's window beside the healthy one, with the gap between them.
-    /// Returns the healthy window and up to five separations (in [`Condition::ALL`] order).
+    /// Every applicable fault's window beside the healthy one, with the gap between them in
+    /// seconds. Returns the healthy window and up to five separations (in [`Condition::ALL`]
+    /// order).
     ///
     /// # Errors
     /// As [`Design::window`].
@@ -319,8 +445,7 @@ impl Design {
     pub fn banded_tick_windows<const B: usize>(
         &self,
         m: &Measurement,
-        tick: Hertz,
-        guard: Duty,
+        timing: &Timing,
         upper_edges: [Temperature; B],
     ) -> Result<BandedWindows<B>, Error> {
         let mut out = BandedWindows {
@@ -345,40 +470,29 @@ impl Design {
             if let (Some(e), Some(w)) = (out.upper_edges_deci_c.get_mut(k), out.windows.get_mut(k))
             {
                 *e = deci as i16;
-                *w = band.tick_windows(m, tick, guard)?;
+                *w = band.tick_windows(m, timing)?;
             }
             lo = *edge;
         }
         Ok(out)
     }
 
-    /// The run-time windows in timer ticks at `tick_hz`: each window widened outward to whole
-    /// ticks (minimum rounded down, maximum rounded up) and by `guard` (a relative margin for
-    /// what the model leaves out, for example 0.05).
+    /// The run-time windows in timer ticks: every condition's window widened by the relative
+    /// guard band, rounded outward to whole ticks (a time t reads ⌊t·f⌋ or ⌈t·f⌉ depending on
+    /// the timer's phase) and widened by the stated jitter on each side.
+    ///
+    /// Work: six windows of [`Design::window`].
     ///
     /// # Errors
-    /// `guard` outside 0…1 → [`Reason::OutsideValidatedRange`] on `"guard"`; errors of
-    /// [`Design::window`] and [`to_ticks`].
-    pub fn tick_windows(
-        &self,
-        m: &Measurement,
-        tick: Hertz,
-        guard: Duty,
-    ) -> Result<Windows, Error> {
-        let g = guard.value();
-        if !(g < 1.0) {
-            return Err(Error::new("guard", Reason::OutsideValidatedRange));
-        }
+    /// `timing` invalid → see [`Timing::validate`]; errors of [`Design::window`] and
+    /// [`to_ticks`].
+    pub fn tick_windows(&self, m: &Measurement, timing: &Timing) -> Result<Windows, Error> {
         let mut entries = [Entry::EMPTY; MAX_WINDOWS];
         let mut n = 0usize;
         for cond in Condition::ALL {
             if let Some(w) = self.window(cond, m)? {
-                let lo_s = Seconds::new(w.min.value() * (1.0 - g))?;
-                let hi_s = Seconds::new(w.max.value() * (1.0 + g))?;
-                // Outward: the lower edge rounded down, the upper edge up.
-                let lo = to_ticks_floor(lo_s, tick)?;
-                let hi = to_ticks(hi_s, tick)?;
                 if let Some(slot) = entries.get_mut(n) {
+                    let (lo, hi) = timing.ticks(w)?;
                     *slot = Entry {
                         lo,
                         hi,
@@ -390,5 +504,51 @@ impl Design {
             }
         }
         Ok(Windows::from_entries(entries, n))
+    }
+}
+
+/// How the firmware times a measurement: its tick rate, the relative guard band added to every
+/// window (for what the model leaves out), and its timing jitter in ticks (interrupt latency,
+/// a polled comparator, the timer's synchronisation).
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct Timing {
+    /// Timer tick rate.
+    pub tick: Hertz,
+    /// Relative guard band, 0 ≤ g < 1.
+    pub guard: Duty,
+    /// Timing jitter, ticks, on each side (≤ 1 000 000).
+    pub jitter_ticks: u32,
+}
+
+impl Timing {
+    /// Checks the fields.
+    ///
+    /// # Errors
+    /// `guard` of 1 → [`Reason::OutsideValidatedRange`] on `"guard"`; jitter above 10⁶ ticks →
+    /// [`Reason::OutsideValidatedRange`] on `"jitter"`.
+    pub fn validate(&self) -> Result<(), Error> {
+        if !(self.guard.value() < 1.0) {
+            return Err(Error::new("guard", Reason::OutsideValidatedRange));
+        }
+        if self.jitter_ticks > 1_000_000 {
+            return Err(Error::new("jitter", Reason::OutsideValidatedRange));
+        }
+        Ok(())
+    }
+
+    /// A window of times as ticks: guard, outward rounding, jitter.
+    ///
+    /// # Errors
+    /// As [`Timing::validate`]; errors of [`to_ticks`].
+    pub fn ticks(&self, w: TimeWindow) -> Result<(u32, u32), Error> {
+        self.validate()?;
+        let g = self.guard.value();
+        let lo_s = Seconds::new(w.min.value() * (1.0 - g))?;
+        let hi_s = Seconds::new(w.max.value() * (1.0 + g))?;
+        // Outward: the lower edge rounded down, the upper edge up; then the jitter.
+        let lo = to_ticks_floor(lo_s, self.tick)?.saturating_sub(self.jitter_ticks);
+        let hi = to_ticks(hi_s, self.tick)?.saturating_add(self.jitter_ticks);
+        Ok((lo, hi))
     }
 }

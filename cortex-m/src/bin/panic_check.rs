@@ -512,10 +512,12 @@ fn input_protection() -> Result<(), Error> {
 
 fn diagnosis() -> Result<(), Error> {
     use kickguard::diagnosis::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
+    use kickguard::diagnosis::compensate::MeasuredAccuracy;
     use kickguard::diagnosis::fit::{fit_decay, SampleBuffer};
     use kickguard::diagnosis::history::VerdictHistory;
+    use kickguard::diagnosis::learn::{LearnedWindow, Learner};
     use kickguard::diagnosis::windows::winding_temperature_from_current;
-    use kickguard::diagnosis::{Condition, Design, Measurement};
+    use kickguard::diagnosis::{Candidates, Condition, Design, Measurement, ShortedTurns, Timing};
     let t = Temperature::from_celsius(bb(25.0))?;
     let coil = Coil::copper(Henries::new(bb(0.5))?, Ohms::new(bb(100.0))?, t)?;
     let design = Design {
@@ -530,8 +532,18 @@ fn diagnosis() -> Result<(), Error> {
         t_clamp_min: Temperature::from_celsius(bb(-10.0))?,
         t_clamp_max: Temperature::from_celsius(bb(70.0))?,
         clamp: Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        clamp_tolerance: bb(0.05),
         switch_avalanche: Breakdown::ideal(Volts::new(bb(60.0))?)?,
-        shorted_turns: bb(0.2),
+        avalanche_tolerance: bb(0.05),
+        shorted: if bb(true) {
+            ShortedTurns::Fraction(bb(0.2))
+        } else {
+            ShortedTurns::Scales {
+                inductance: bb(0.6),
+                resistance: bb(0.8),
+            }
+        },
+        side: if bb(true) { Side::Low } else { Side::High },
     };
     let m = if bb(true) {
         Measurement::BetweenCurrents {
@@ -543,13 +555,56 @@ fn diagnosis() -> Result<(), Error> {
             threshold: Volts::new(bb(14.0))?,
         }
     };
-    let tick = Hertz::new(bb(100_000.0))?;
-    let guard = Duty::new(bb(0.02))?;
+    let timing = Timing {
+        tick: Hertz::new(bb(100_000.0))?,
+        guard: Duty::new(bb(0.02))?,
+        jitter_ticks: bb(2),
+    };
+    timing.validate()?;
     bb(design.window(Condition::Healthy, &m)?);
     bb(design.separations(&m)?);
-    let w = design.tick_windows(&m, tick, guard)?;
-    bb(design.banded_tick_windows(&m, tick, guard, [Temperature::from_celsius(bb(30.0))?])?);
+    let w = design.tick_windows(&m, &timing)?;
+    bb(design.banded_tick_windows(&m, &timing, [Temperature::from_celsius(bb(30.0))?])?);
+    let rep = design.tick_separations(&m, &timing)?;
+    for s in rep.faults.iter() {
+        bb((
+            s.window.gap(&rep.healthy),
+            s.window.overlaps(&rep.healthy),
+            s.confused_with.count(),
+        ));
+        // Counted with a saturating fold: core's `count` adds with an overflow check.
+        bb(s.confused_with
+            .iter()
+            .fold(0u32, |n, _| n.saturating_add(1)));
+    }
+    let acc = MeasuredAccuracy {
+        supply: bb(0.01),
+        current: bb(0.01),
+    };
+    let comp = design.compensated_tick_windows(
+        &m,
+        &timing,
+        &acc,
+        [Volts::new(bb(13.2))?],
+        [Amps::new(bb(0.1))?, Amps::new(bb(0.14))?],
+    )?;
+    bb(comp.classify(bb(12_000), bb(110_000), bb(500)));
+    let lim = design.resistance_limit(&acc)?;
+    bb(lim.exceeded(bb(12_000), bb(90_000)));
     let v = w.classify(bb(1234));
+    bb(Candidates::NONE
+        .with(Condition::CoilOpen)
+        .contains(Condition::Healthy));
+    let mut learner: Learner<8> = Learner::new(w, bb(2))?;
+    for k in 0..12u32 {
+        bb(learner.observe(bb(1000 + k)));
+    }
+    if let Some(lw) = learner.learned() {
+        let _ = bb(LearnedWindow::from_bytes(&lw.to_bytes(), &w).map(|x| x.contains(bb(1003))));
+        bb(Learner::<8>::resume(w, bb(2), lw).is_ok());
+    }
+    learner.forget();
+    hal_routines();
     bb(w.entries()
         .fold(0u32, |n, e| n.saturating_add(e.hi.saturating_sub(e.lo))));
     let mut e = [Entry::EMPTY; MAX_WINDOWS];
@@ -585,6 +640,7 @@ fn diagnosis() -> Result<(), Error> {
         f.inductance(Ohms::new(bb(100.0))?)?,
         f.clamp_voltage(Ohms::new(bb(100.0))?)?,
         f.closest_clamp(Ohms::new(bb(100.0))?, &[Volts::new(bb(0.8))?])?,
+        f.recover(Ohms::new(bb(100.0))?, Ohms::new(bb(15.0))?)?,
     ));
     bb(winding_temperature_from_current(
         &coil,
@@ -592,6 +648,65 @@ fn diagnosis() -> Result<(), Error> {
         Amps::new(bb(0.1))?,
     )?);
     Ok(())
+}
+
+/// Pins and a counter that only exist to call the `embedded-hal` routines.
+struct Pin(bool);
+impl embedded_hal::digital::ErrorType for Pin {
+    type Error = core::convert::Infallible;
+}
+impl embedded_hal::digital::OutputPin for Pin {
+    fn set_low(&mut self) -> Result<(), Self::Error> {
+        self.0 = false;
+        Ok(())
+    }
+    fn set_high(&mut self) -> Result<(), Self::Error> {
+        self.0 = true;
+        Ok(())
+    }
+}
+impl embedded_hal::digital::InputPin for Pin {
+    fn is_high(&mut self) -> Result<bool, Self::Error> {
+        Ok(bb(self.0))
+    }
+    fn is_low(&mut self) -> Result<bool, Self::Error> {
+        Ok(!bb(self.0))
+    }
+}
+struct Counter(u32);
+impl kickguard::diagnosis::hal::TickCounter for Counter {
+    fn ticks(&mut self) -> u32 {
+        self.0 = self.0.wrapping_add(bb(3));
+        self.0
+    }
+}
+struct Delay;
+impl embedded_hal::delay::DelayNs for Delay {
+    fn delay_ns(&mut self, ns: u32) {
+        bb(ns);
+    }
+}
+
+fn hal_routines() {
+    use kickguard::diagnosis::hal::{measure_flyback, time_current_window, time_flyback};
+    let (mut drive, mut a, mut b) = (Pin(true), Pin(bb(true)), Pin(bb(false)));
+    let mut c = Counter(bb(0));
+    let _ = bb(time_flyback(&mut drive, &mut a, &mut c, bb(100)));
+    let _ = bb(time_current_window(
+        &mut drive,
+        &mut a,
+        &mut b,
+        &mut c,
+        bb(100),
+    ));
+    let _ = bb(measure_flyback(
+        &mut drive,
+        &mut b,
+        &mut Delay,
+        bb(1000),
+        bb(1),
+        bb(100),
+    ));
 }
 
 #[entry]

@@ -5,7 +5,9 @@
 //! logarithm or a short bounded solve): diode drop at a measured temperature, the diode as a
 //! thermometer, coil R(T), winding temperature from a measured resistance and steady
 //! current, the closed-form constant-clamp decay (wait time, charge, energies), the thermal check,
-//! the diagnosis verdict on a tick count, the verdict history and the sample-buffer fit.
+//! the diagnosis verdict on a tick count (plain and compensated by the measured supply and
+//! on-current), the hot-coil resistance check, the verdict history, learning a unit's own
+//! window with its persisted form, and the sample-buffer fit.
 //! Configuration-time functions (fits, the full `SwitchOff` engine with its diode-law
 //! quadrature, sizing, the snubber, sampling for plots, the series-resistor solve) are measured
 //! separately as "whole public API".
@@ -21,8 +23,10 @@ use kickguard::rating::ThermalPath;
 use kickguard::{Amps, Error, Henries, Ohms, Temperature, Volts, Watts};
 
 use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
+use kickguard::diagnosis::compensate::{CompensatedWindows, ResistanceLimit};
 use kickguard::diagnosis::fit::fit_decay;
 use kickguard::diagnosis::history::VerdictHistory;
+use kickguard::diagnosis::learn::{LearnedWindow, Learner, Reading};
 use kickguard::diagnosis::{Condition, Verdict};
 
 /// Diagnosis windows as a firmware holds them: generated constants, built at compile time.
@@ -39,6 +43,13 @@ static WINDOWS: Windows = {
         condition: Condition::FreewheelOpen,
     };
     Windows::from_entries(e, 2)
+};
+
+/// Compensated windows as generated constants: 2 supply bins × 3 on-current bins.
+static COMPENSATED: CompensatedWindows<2, 3> = CompensatedWindows {
+    supply_edges_mv: [24_000, 26_400],
+    current_edges_ua: [400_000, 450_000, 500_000],
+    windows: [[WINDOWS; 3]; 2],
 };
 
 /// A sample buffer as the ADC interrupt would have filled it.
@@ -93,6 +104,23 @@ fn run() -> Result<f32, Error> {
     acc += fit_decay(bb(&SAMPLES[..]), kickguard::Seconds::new(bb(1e-4))?)?
         .tau
         .value();
+    // Compensated windows (by measured supply and on-current), the hot-coil resistance check,
+    // and learning the unit's own window with its persisted form.
+    let comp = bb(&COMPENSATED);
+    acc += (comp.classify(bb(24_000), bb(420_000), bb(250)) == Verdict::Healthy) as u32 as f32;
+    acc += ResistanceLimit {
+        max_healthy_mohm: bb(80_000),
+    }
+    .exceeded(bb(24_000), bb(300_000)) as u32 as f32;
+    let mut learner: Learner<16> = Learner::new(*w, bb(2))?;
+    for k in 0..20u32 {
+        if let Reading::Departure = learner.observe(bb(450 + (k & 3))) {
+            acc += 1.0;
+        }
+    }
+    if let Some(lw) = learner.learned() {
+        acc += LearnedWindow::from_bytes(&lw.to_bytes(), w).is_ok() as u32 as f32;
+    }
     Ok(acc)
 }
 

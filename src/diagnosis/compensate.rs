@@ -1,0 +1,377 @@
+//! Compensation: windows as a function of what the firmware measures before it switches off —
+//! the supply voltage and the coil's on-current — so the healthy window spans only what those
+//! readings leave open.
+//!
+//! Why it narrows: across all units and temperatures a healthy decay time moves with L, R, the
+//! on-current and the clamp; the on-current I = V/R and the supply V tell the firmware R (to its
+//! measurement accuracy) and I₀ before the decay starts, leaving L's tolerance and the clamp's.
+//! A shorted-turns fault then shows as a decay too fast for the measured R, and a winding too
+//! hot as an R no healthy winding has ([`ResistanceLimit`]).
+//!
+//! Configuration time ([`Design::compensated_tick_windows`]): the supply and the on-current are
+//! split into bins (upper edges, increasing; the last bin also takes everything above). In each
+//! cell the true values lie within the bin widened by the firmware's measurement accuracy
+//! ([`MeasuredAccuracy`]); the coil resistance then lies within [V_lo/I_hi, V_hi/I_lo]
+//! intersected with what each condition allows (healthy: R over temperature and tolerance;
+//! shorted turns: that times its factor; too hot: beyond the hottest allowed winding). Every
+//! condition's window in the cell is found over the corners of the supply, the start current and
+//! the resistance (taken as three independent axes: a superset of the physical cell, so the
+//! window can only be wider than the truth, never narrower), L, the diode, breakdown-part and
+//! switch temperatures, and the two breakdown tolerances: 2⁹ corners a condition. A condition
+//! whose resistance range misses the cell has no window there.
+//!
+//! Run time ([`CompensatedWindows::classify`]): two bin searches over the edges and the verdict
+//! of the cell's [`Windows`], integer comparisons only.
+
+use super::classify::{Entry, Verdict, Windows, MAX_WINDOWS};
+use super::windows::{clamp_scaled, Design, Measurement, TimeWindow, Timing};
+use super::Condition;
+use crate::clamp::{Clamp, Operating, SwitchOff};
+use crate::coil::Coil;
+use crate::error::{self, Error, Reason};
+use crate::units::{Amps, Henries, Ohms, Seconds, Temperature, Volts};
+
+/// The relative accuracy of the firmware's own readings of the supply and the on-current
+/// (0.02 = ±2 %), each 0 … 0.2.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct MeasuredAccuracy {
+    /// Supply reading.
+    pub supply: f32,
+    /// On-current reading.
+    pub current: f32,
+}
+
+/// Windows per cell of (measured supply, measured on-current).
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct CompensatedWindows<const S: usize, const C: usize> {
+    /// Upper edge of each supply bin, mV, increasing; the last bin takes everything above.
+    pub supply_edges_mv: [u32; S],
+    /// Upper edge of each on-current bin, µA, increasing; the last bin takes everything above.
+    pub current_edges_ua: [u32; C],
+    /// The windows of each cell, `[supply bin][current bin]`.
+    pub windows: [[Windows; C]; S],
+}
+
+/// The bin of `x` among increasing upper `edges` (the last takes everything above). Work: at
+/// most N comparisons.
+fn bin<const N: usize>(edges: &[u32; N], x: u32) -> usize {
+    let mut k = 0usize;
+    // zip with a bounded range, not enumerate: Range's step cannot overflow-panic.
+    for (i, e) in (0..N).zip(edges.iter()) {
+        k = i;
+        if x <= *e {
+            break;
+        }
+    }
+    k
+}
+
+impl<const S: usize, const C: usize> CompensatedWindows<S, C> {
+    /// The verdict on `ticks` with the windows of the cell holding the measured supply (mV) and
+    /// on-current (µA). Integer only; work: S + C comparisons and one [`Windows::classify`].
+    /// With no bins nothing is known: [`Verdict::Unexplained`].
+    pub fn classify(&self, supply_mv: u32, on_current_ua: u32, ticks: u32) -> Verdict {
+        self.cell(supply_mv, on_current_ua)
+            .map_or(Verdict::Unexplained, |w| w.classify(ticks))
+    }
+
+    /// The windows of the cell holding the measured supply (mV) and on-current (µA): for a
+    /// report of what each cell can tell apart. None only with no bins. Work: S + C
+    /// comparisons.
+    pub fn cell(&self, supply_mv: u32, on_current_ua: u32) -> Option<&Windows> {
+        let (s, c) = (
+            bin(&self.supply_edges_mv, supply_mv),
+            bin(&self.current_edges_ua, on_current_ua),
+        );
+        self.windows.get(s).and_then(|row| row.get(c))
+    }
+}
+
+/// The resistance above which no healthy winding can be: the firmware's integer check for a
+/// coil too hot (or shorted to a higher resistance), from its supply and on-current readings.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct ResistanceLimit {
+    /// The limit, mΩ, already lowered by the readings' accuracy.
+    pub max_healthy_mohm: u32,
+}
+
+impl ResistanceLimit {
+    /// True when the measured V/I is above every healthy winding's resistance. Integer only:
+    /// V/I in Ω is 1000·V_mV/I_µA, so the test is 10⁶·V_mV > R_mΩ·I_µA (u64, no overflow).
+    pub fn exceeded(&self, supply_mv: u32, on_current_ua: u32) -> bool {
+        (supply_mv as u64) * 1_000_000 > (self.max_healthy_mohm as u64) * (on_current_ua as u64)
+    }
+}
+
+/// The resistance range each condition allows, Ω (before the cell's own limits).
+struct Ranges {
+    healthy: (f32, f32),
+    shorted: (f32, f32),
+    hot: (f32, f32),
+}
+
+impl Design {
+    /// R of the winding at `t` over its tolerance.
+    fn r_range(&self, t_lo: Temperature, t_hi: Temperature) -> Result<(f32, f32), Error> {
+        let tol = self.resistance_tolerance;
+        Ok((
+            self.coil.resistance(t_lo)?.value() * (1.0 - tol),
+            self.coil.resistance(t_hi)?.value() * (1.0 + tol),
+        ))
+    }
+
+    fn ranges(&self) -> Result<Ranges, Error> {
+        let healthy = self.r_range(self.t_winding_min, self.t_winding_max)?;
+        let (_, fr) = self.shorted_factors()?;
+        Ok(Ranges {
+            healthy,
+            shorted: (healthy.0 * fr, healthy.1 * fr),
+            hot: (
+                self.coil.resistance(self.t_winding_max)?.value()
+                    * (1.0 - self.resistance_tolerance),
+                self.r_range(self.t_winding_max, self.t_winding_fault_max)?
+                    .1,
+            ),
+        })
+    }
+
+    /// The resistance limit above which no healthy winding is, lowered by the on-current and
+    /// supply readings' accuracy (a true healthy R can read up to (1 + ε_V)/(1 − ε_I) high).
+    ///
+    /// # Errors
+    /// As [`Design::window`]; accuracy outside 0 … 0.2 → [`Reason::OutsideValidatedRange`] on
+    /// `"measurement accuracy"`.
+    pub fn resistance_limit(&self, acc: &MeasuredAccuracy) -> Result<ResistanceLimit, Error> {
+        self.check()?;
+        let (ev, ei) = accuracy(acc)?;
+        let r = self.ranges()?.healthy.1 * (1.0 + ev) / (1.0 - ei);
+        let mohm = libm::ceilf(r * 1000.0);
+        if !(mohm < u32::MAX as f32) {
+            return Err(Error::new("coil resistance", Reason::TooLarge));
+        }
+        Ok(ResistanceLimit {
+            max_healthy_mohm: mohm as u32,
+        })
+    }
+
+    /// The compensated run-time windows: one set of [`Windows`] per cell of measured supply
+    /// (upper edges `supply_edges`) and on-current (upper edges `current_edges`), each found
+    /// over what the readings leave open (see the module docs).
+    ///
+    /// Work: S·C cells × six conditions × 512 corners, each one switch-off set-up and at most
+    /// two decay integrations.
+    ///
+    /// # Errors
+    /// Edges not increasing → [`Reason::NotIncreasing`] on `"supply edges"` / `"current
+    /// edges"`; the last supply edge below the highest supply → [`Reason::Inconsistent`] on
+    /// `"supply edges"`; as [`Design::resistance_limit`] and [`Design::tick_windows`].
+    pub fn compensated_tick_windows<const S: usize, const C: usize>(
+        &self,
+        m: &Measurement,
+        timing: &Timing,
+        acc: &MeasuredAccuracy,
+        supply_edges: [Volts; S],
+        current_edges: [Amps; C],
+    ) -> Result<CompensatedWindows<S, C>, Error> {
+        self.check()?;
+        timing.validate()?;
+        let (ev, ei) = accuracy(acc)?;
+        let sv = edges("supply edges", &supply_edges.map(|v| v.value()))?;
+        let ci = edges("current edges", &current_edges.map(|a| a.value()))?;
+        if S > 0 && !(supply_edges.last().is_some_and(|e| *e >= self.v_supply_max)) {
+            return Err(Error::new("supply edges", Reason::Inconsistent));
+        }
+        let ranges = self.ranges()?;
+        let i_top = self.v_supply_max.value() * (1.0 + ev) / ranges.shorted.0.max(1e-30);
+        let mut out = CompensatedWindows {
+            supply_edges_mv: scaled_edges("supply edges", &sv, 1e3)?,
+            current_edges_ua: scaled_edges("current edges", &ci, 1e6)?,
+            windows: [[Windows::from_entries([Entry::EMPTY; MAX_WINDOWS], 0); C]; S],
+        };
+        for (k, row) in (0..S).zip(out.windows.iter_mut()) {
+            let v_lo = if k == 0 {
+                self.v_supply_min.value()
+            } else {
+                sv.get(k - 1).copied().unwrap_or(0.0)
+            };
+            let v_hi = sv
+                .get(k)
+                .copied()
+                .unwrap_or(v_lo)
+                .min(self.v_supply_max.value());
+            let v = (
+                (v_lo * (1.0 - ev)).max(self.v_supply_min.value()),
+                (v_hi * (1.0 + ev)).min(self.v_supply_max.value()),
+            );
+            for (j, cell) in (0..C).zip(row.iter_mut()) {
+                let i_lo = if j == 0 {
+                    0.0
+                } else {
+                    ci.get(j - 1).copied().unwrap_or(0.0)
+                };
+                let i_hi = if j + 1 == C {
+                    i_top.max(i_lo)
+                } else {
+                    ci.get(j).copied().unwrap_or(i_lo)
+                };
+                let i = (i_lo * (1.0 - ei), i_hi * (1.0 + ei));
+                *cell = self.cell_windows(m, timing, &ranges, v, i)?;
+            }
+        }
+        Ok(out)
+    }
+
+    /// The windows of one cell: supply range `v`, on-current range `i`.
+    fn cell_windows(
+        &self,
+        m: &Measurement,
+        timing: &Timing,
+        ranges: &Ranges,
+        v: (f32, f32),
+        i: (f32, f32),
+    ) -> Result<Windows, Error> {
+        let mut entries = [Entry::EMPTY; MAX_WINDOWS];
+        let mut n = 0usize;
+        let r_cell = (
+            v.0 / i.1.max(1e-30),
+            if i.0 > 0.0 { v.1 / i.0 } else { f32::INFINITY },
+        );
+        for cond in Condition::ALL {
+            let w = match cond {
+                Condition::CoilOpen if i.0 <= 0.0 => Some(TimeWindow {
+                    min: Seconds::raw(0.0),
+                    max: Seconds::raw(0.0),
+                }),
+                Condition::CoilOpen => None,
+                _ => {
+                    let allowed = match cond {
+                        Condition::ShortedTurns => ranges.shorted,
+                        Condition::CoilTooHot => ranges.hot,
+                        _ => ranges.healthy,
+                    };
+                    let r = (r_cell.0.max(allowed.0), r_cell.1.min(allowed.1));
+                    if r.0 > r.1 {
+                        None
+                    } else {
+                        self.cell_window(cond, m, v, (i.0.max(v.0 / r.1), i.1.min(v.1 / r.0)), r)?
+                    }
+                }
+            };
+            if let (Some(w), Some(slot)) = (w, entries.get_mut(n)) {
+                let (lo, hi) = timing.ticks(w)?;
+                *slot = Entry {
+                    lo,
+                    hi,
+                    condition: cond,
+                };
+                // n < MAX_WINDOWS here: cannot saturate.
+                n = n.saturating_add(1);
+            }
+        }
+        Ok(Windows::from_entries(entries, n))
+    }
+
+    /// One condition's window over a cell: supply `v`, start current `i`, resistance `r`.
+    fn cell_window(
+        &self,
+        cond: Condition,
+        m: &Measurement,
+        v: (f32, f32),
+        i: (f32, f32),
+        r: (f32, f32),
+    ) -> Result<Option<TimeWindow>, Error> {
+        let (fl, _) = self.shorted_factors()?;
+        let (clamp, l_scale, avalanche) = match cond {
+            Condition::Healthy | Condition::CoilTooHot => {
+                (self.clamp, 1.0, matches!(self.clamp, Clamp::Avalanche(_)))
+            }
+            Condition::ShortedTurns => (self.clamp, fl, matches!(self.clamp, Clamp::Avalanche(_))),
+            Condition::FreewheelOpen => match self.clamp {
+                Clamp::Avalanche(_) => return Ok(None),
+                _ => (Clamp::Avalanche(self.switch_avalanche), 1.0, true),
+            },
+            Condition::ZenerShorted => match self.clamp {
+                Clamp::ZenerDiode { diode, .. } => (Clamp::FreewheelDiode(diode), 1.0, false),
+                Clamp::SwitchedFreewheel(s) => (Clamp::FreewheelDiode(s.diode), 1.0, false),
+                _ => return Ok(None),
+            },
+            Condition::CoilOpen => return Ok(None),
+        };
+        if !(i.1 > 0.0 && i.0 <= i.1) {
+            return Ok(None);
+        }
+        let i = (i.0.max(i.1 * 1e-6), i.1);
+        let mut acc = (f32::INFINITY, f32::NEG_INFINITY);
+        for k in 0u32..512 {
+            let pick = |bit: u32, lo: f32, hi: f32| if k & (1 << bit) == 0 { lo } else { hi };
+            let lt = self.inductance_tolerance;
+            let l = self.coil.inductance().value() * l_scale * pick(0, 1.0 - lt, 1.0 + lt);
+            let coil = Coil::fixed(Henries::new(l)?, Ohms::new(pick(1, r.0, r.1))?)?;
+            let (c_lo, c_hi) = (self.t_clamp_min.kelvin(), self.t_clamp_max.kelvin());
+            let t_switch = Temperature::from_kelvin(pick(6, c_lo, c_hi))?;
+            let (ct, at) = (self.clamp_tolerance, self.avalanche_tolerance);
+            let (tol, t_bd) = if avalanche {
+                (pick(8, 1.0 - at, 1.0 + at), t_switch)
+            } else {
+                (
+                    pick(7, 1.0 - ct, 1.0 + ct),
+                    Temperature::from_kelvin(pick(5, c_lo, c_hi))?,
+                )
+            };
+            let op = Operating {
+                supply: Volts::new(pick(2, v.0, v.1))?,
+                start_current: Amps::new(pick(3, i.0, i.1))?,
+                winding: self.t_winding_min,
+                diodes: Temperature::from_kelvin(pick(4, c_lo, c_hi))?,
+                breakdown: t_bd,
+            };
+            let off = SwitchOff::new(&coil, &clamp_scaled(&clamp, tol)?, self.side, &op)?;
+            let t = Self::measure(&off, m)?;
+            acc = (acc.0.min(t), acc.1.max(t));
+        }
+        Ok(Some(TimeWindow {
+            min: Seconds::new(acc.0)?,
+            max: Seconds::new(acc.1)?,
+        }))
+    }
+}
+
+/// The two accuracies, checked.
+fn accuracy(acc: &MeasuredAccuracy) -> Result<(f32, f32), Error> {
+    Ok((
+        error::within("measurement accuracy", acc.supply, 0.0, 0.2)?,
+        error::within("measurement accuracy", acc.current, 0.0, 0.2)?,
+    ))
+}
+
+/// Edges checked positive and strictly increasing.
+fn edges<const N: usize>(name: &'static str, e: &[f32; N]) -> Result<[f32; N], Error> {
+    let mut prev = 0.0f32;
+    for x in e {
+        if !(*x > prev) {
+            return Err(Error::new(name, Reason::NotIncreasing));
+        }
+        prev = *x;
+    }
+    Ok(*e)
+}
+
+/// Edges in milli- or micro-units, rounded to the nearest; an edge beyond u32 is refused.
+fn scaled_edges<const N: usize>(
+    name: &'static str,
+    e: &[f32; N],
+    scale: f32,
+) -> Result<[u32; N], Error> {
+    let mut out = [0u32; N];
+    for (o, x) in out.iter_mut().zip(e) {
+        let y = libm::roundf(x * scale);
+        if !(y >= 0.0 && y < u32::MAX as f32) {
+            return Err(Error::new(name, Reason::TooLarge));
+        }
+        *o = y as u32;
+    }
+    Ok(out)
+}
