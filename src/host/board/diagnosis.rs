@@ -68,6 +68,48 @@ fn measurements(
     Ok(out)
 }
 
+/// The shorted-turns fault's (L, R) factors: from `shorted_turns` (a share f of the turns:
+/// L·(1 − f)², R·(1 − f), common practice) or from `shorted_inductance` and
+/// `shorted_resistance`, exactly one of the two forms.
+fn shorted(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    g: &file::DiagnosisSpec,
+) -> Result<(f32, f32), HostError> {
+    let share = range(0.01, 0.9, "1 … 90 %");
+    let left = range(0.01, 0.99, "1 … 99 %");
+    match (
+        &g.shorted_turns,
+        &g.shorted_inductance,
+        &g.shorted_resistance,
+    ) {
+        (Some(q), None, None) => {
+            let f = r.q(q, &at("shorted_turns"), Unit::Percent, share)?;
+            Ok(((1.0 - f) * (1.0 - f), 1.0 - f))
+        }
+        (None, Some(l), Some(rr)) => Ok((
+            r.q(l, &at("shorted_inductance"), Unit::Percent, left)?,
+            r.q(rr, &at("shorted_resistance"), Unit::Percent, left)?,
+        )),
+        (Some(_), _, _) => Err(r.at(
+            &at("shorted_turns"),
+            "give shorted_turns or shorted_inductance with shorted_resistance, not both",
+        )),
+        (None, None, None) => Err(r.at(
+            &at("shorted_turns"),
+            "missing: give shorted_turns, or shorted_inductance with shorted_resistance",
+        )),
+        (None, Some(_), None) => Err(r.at(
+            &at("shorted_resistance"),
+            "missing: shorted_inductance needs shorted_resistance beside it",
+        )),
+        (None, None, Some(_)) => Err(r.at(
+            &at("shorted_inductance"),
+            "missing: shorted_resistance needs shorted_inductance beside it",
+        )),
+    }
+}
+
 /// Converts a driver's diagnosis section.
 ///
 /// # Errors
@@ -103,12 +145,7 @@ pub fn convert(
             range(0.0, 1e4, "0 … 10000 ticks"),
         )?
         .unwrap_or(0.0);
-    let shorted = r.q(
-        &g.shorted_turns,
-        &at("shorted_turns"),
-        Unit::Percent,
-        range(0.01, 0.9, "1 … 90 %"),
-    )?;
+    let shorted = shorted(r, &at, g)?;
     let confirmations = g.confirmations.as_ref().map_or(1, |c| *c.get_ref());
     if !(1..=100).contains(&confirmations) {
         return Err(r.at(&at("confirmations"), "must be 1 … 100"));
@@ -117,7 +154,7 @@ pub fn convert(
         measurements,
         guard: Duty::new(guard).map_err(|e| r.model(&at("guard"), e))?,
         jitter_ticks: libm::ceilf(jitter) as u32,
-        shorted_turns: shorted,
+        shorted,
         confirmations,
     }))
 }

@@ -339,8 +339,8 @@ pub struct DiagnosisBoard {
     pub guard: Duty,
     /// Timing jitter of the firmware's measurement, ticks.
     pub jitter_ticks: u32,
-    /// Share of turns shorted in the shorted-turns fault.
-    pub shorted_turns: f32,
+    /// The shorted-turns fault's factors on (L, R), each in (0, 1).
+    pub shorted: (f32, f32),
     /// How many fault readings in a row the firmware waits for.
     pub confirmations: u32,
 }

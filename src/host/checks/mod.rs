@@ -13,6 +13,7 @@ pub mod hold;
 pub mod inputs;
 pub mod metric;
 pub mod open_clamp;
+pub mod propose;
 pub mod sized;
 pub mod switch;
 pub mod timing;
@@ -101,6 +102,7 @@ pub fn driver_checks(
     open_clamp::checks(run, &mut out);
     hold::checks(board, run, &mut out)?;
     diagnosis::checks(board, run, &mut out)?;
+    propose::checks(board, run, &mut out)?;
     Ok(out)
 }
 

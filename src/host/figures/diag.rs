@@ -6,7 +6,8 @@
 //! - zener shorted (zener + diode, switched freewheel): the diode alone;
 //! - coil open: no current, every measurement reads zero;
 //! - shorted turns, a share f of the turns: L·(1 − f)², R·(1 − f) (inductance goes with the
-//!   square of the turns, resistance with the wire length: common practice);
+//!   square of the turns, resistance with the wire length: common practice), or the L and R
+//!   factors the file gives;
 //! - coil too hot: the winding axis mapped onto the 50 K above the hottest allowed winding.
 
 use super::profile::{self, MAX_CURRENTS};
@@ -102,9 +103,9 @@ fn fault_circuit(cx: &Context<'_>, cond: Condition, p: &Point) -> Result<Option<
         },
         Condition::CoilOpen => None,
         Condition::ShortedTurns => {
-            let f = cx.d.diagnosis.as_ref().map_or(0.0, |g| g.shorted_turns);
+            let (fl, fr) = cx.d.diagnosis.as_ref().map_or((1.0, 1.0), |g| g.shorted);
             let mut c = parts::circuit_at(d, p)?;
-            c.coil = c.coil.scaled((1.0 - f) * (1.0 - f), 1.0 - f)?;
+            c.coil = c.coil.scaled(fl, fr)?;
             c.op.start_current = c.coil.steady_current(c.op.supply, c.op.winding)?;
             Some(c)
         }

@@ -227,8 +227,15 @@ pub struct DiagnosisSpec {
     pub guard: Q,
     /// Timing jitter of the firmware's measurement, in ticks.
     pub jitter: Option<Q>,
-    /// Share of turns shorted in the shorted-turns fault.
-    pub shorted_turns: Q,
+    /// Share of turns shorted in the shorted-turns fault (L·(1 − f)², R·(1 − f)); or give
+    /// the two factors below instead.
+    pub shorted_turns: Option<Q>,
+    /// What remains of the inductance in the shorted-turns fault ("64 %"), with
+    /// `shorted_resistance`.
+    pub shorted_inductance: Option<Q>,
+    /// What remains of the resistance in the shorted-turns fault ("80 %"), with
+    /// `shorted_inductance`.
+    pub shorted_resistance: Option<Q>,
     /// How many fault readings in a row the firmware waits for.
     pub confirmations: Option<Spanned<u32>>,
 }
