@@ -13,8 +13,9 @@ use kickguard::clamp::sizing::ZenerSizing;
 use kickguard::clamp::snubber::{RcSnubber, SnubberSwitchOff};
 use kickguard::clamp::{ActiveClamp, Clamp, Operating, Sample, Side, SwitchOff};
 use kickguard::coil::Coil;
+use kickguard::diagnosis::compensate::MeasuredAccuracy;
 use kickguard::diagnosis::fit::fit_decay;
-use kickguard::diagnosis::{Condition, Design, Measurement, Windows};
+use kickguard::diagnosis::{Condition, Design, Measurement, ShortedTurns, Timing, Windows};
 use kickguard::diode::{
     fit_three_points, fit_two_points, BandGap, Diode, DiodeParams, DropPoint, Ideality, Xti,
 };
@@ -316,16 +317,36 @@ fn every_public_function_returns_promptly_on_hostile_input() {
                 zener: Breakdown::ideal(Volts::new(18.0).unwrap()).unwrap(),
                 diode: d,
             },
+            clamp_tolerance: 0.05,
             switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
-            shorted_turns: 0.2,
+            avalanche_tolerance: 0.05,
+            shorted: ShortedTurns::Fraction(0.2),
+            side: Side::Low,
         };
         let Ok(th) = Volts::new(th) else { return };
         let m = Measurement::SwitchAbove { threshold: th };
         let _ = design.separations(&m);
         if let Ok(tick) = Hertz::new(tick) {
-            if let Ok(w) = design.tick_windows(&m, tick, Duty::new(0.05).unwrap()) {
+            let timing = Timing {
+                tick,
+                guard: Duty::new(0.05).unwrap(),
+                jitter_ticks: 2,
+            };
+            if let Ok(w) = design.tick_windows(&m, &timing) {
                 let _ = w.classify(to_ticks(Seconds::new(3e-3).unwrap(), tick).unwrap_or(0));
             }
+            let _ = design.tick_separations(&m, &timing);
+            let acc = MeasuredAccuracy {
+                supply: 0.02,
+                current: 0.02,
+            };
+            let _ = design.compensated_tick_windows(
+                &m,
+                &timing,
+                &acc,
+                [Volts::new(26.4).unwrap()],
+                [Amps::new(0.45).unwrap(), Amps::new(0.6).unwrap()],
+            );
         }
         let _ = Windows::from_rows(&[[u32::MAX, u32::MAX, Condition::FreewheelOpen.code()]])
             .classify(u32::MAX);

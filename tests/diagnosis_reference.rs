@@ -17,15 +17,15 @@ mod common;
 use common::v64;
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
 use kickguard::clamp::Clamp;
+use kickguard::clamp::Side;
 use kickguard::coil::Coil;
 use kickguard::diagnosis::fit::fit_decay;
 use kickguard::diagnosis::hal::{measure_flyback, MeasureError};
 use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::windows::winding_temperature_from_current;
-use kickguard::diagnosis::{Condition, Design, Measurement, Verdict};
+use kickguard::diagnosis::{Condition, Design, Measurement, ShortedTurns, Timing, Verdict};
 use kickguard::diode::{Diode, DiodeParams};
 use kickguard::{Amps, Duty, Henries, Hertz, Ohms, PerKelvin, Reason, Seconds, Temperature, Volts};
-use ode_solvers::{Dopri5, SVector, System};
 
 fn tc(c: f32) -> Temperature {
     Temperature::from_celsius(c).unwrap()
@@ -38,6 +38,13 @@ fn a(x: f32) -> Amps {
 }
 fn hz(f: f32) -> Hertz {
     Hertz::new(f).unwrap()
+}
+fn timing(f: f32, guard: f32) -> Timing {
+    Timing {
+        tick: hz(f),
+        guard: Duty::new(guard).unwrap(),
+        jitter_ticks: 0,
+    }
 }
 
 const VZ: f64 = 24.0;
@@ -77,44 +84,16 @@ fn design() -> Design {
             diode: Diode::Law(DiodeParams::SILICON),
         },
         switch_avalanche: Breakdown::ideal(v(V_AV as f32)).unwrap(),
-        shorted_turns: 0.2,
-    }
-}
-
-/// t(σ) over the normalised fall σ = (I₀ − i)/(I₀ − I₁): d t/dσ = (I₀ − I₁)·L/g(i).
-struct Fall<'a> {
-    l: f64,
-    i0: f64,
-    span: f64,
-    g: &'a dyn Fn(f64) -> f64,
-}
-impl System<f64, SVector<f64, 1>> for Fall<'_> {
-    fn system(&self, s: f64, _y: &SVector<f64, 1>, dy: &mut SVector<f64, 1>) {
-        dy[0] = self.span * self.l / (self.g)(self.i0 - s * self.span);
+        clamp_tolerance: 0.0,
+        avalanche_tolerance: 0.0,
+        shorted: ShortedTurns::Fraction(0.2),
+        side: Side::Low,
     }
 }
 
 /// Time for the current to fall from i0 to i1 (Dormand–Prince, f64).
 fn ode_time(l: f64, i0: f64, i1: f64, g: &dyn Fn(f64) -> f64) -> f64 {
-    if i1 >= i0 {
-        return 0.0;
-    }
-    let mut s = Dopri5::new(
-        Fall {
-            l,
-            i0,
-            span: i0 - i1,
-            g,
-        },
-        0.0,
-        1.0,
-        1e-4,
-        SVector::<f64, 1>::zeros(),
-        1e-10,
-        1e-30,
-    );
-    s.integrate().unwrap();
-    s.y_out().last().unwrap()[0]
+    common::ode::fall_time(l, i0, i1, g, 1e-4, 1e-10, 1e-30)
 }
 
 /// The measured time between 80 mA and 10 mA of a circuit at one interior point, from the ODE.
@@ -165,9 +144,7 @@ fn classifier_gets_ode_generated_measurements_right() {
         lower: a(0.010),
     };
     let tick_hz = 100_000.0f32;
-    let windows = d
-        .tick_windows(&m, hz(tick_hz), Duty::new(0.0).unwrap())
-        .unwrap();
+    let windows = d.tick_windows(&m, &timing(tick_hz, 0.0)).unwrap();
     let (_, seps) = d.separations(&m).unwrap();
     let detectable = |c: Condition| seps.iter().any(|s| s.condition == c && s.detectable);
     for cond in [
@@ -194,7 +171,8 @@ fn classifier_gets_ode_generated_measurements_right() {
                 // A healthy circuit inside its tolerances is always called healthy.
                 Condition::Healthy => assert_eq!(verdict, Verdict::Healthy, "healthy {p:?}: {t} s"),
                 c if detectable(c) => assert!(
-                    verdict == Verdict::Fault(c) || verdict == Verdict::Ambiguous,
+                    verdict == Verdict::Fault(c)
+                        || matches!(verdict, Verdict::Ambiguous(s) if s.contains(c)),
                     "{c:?} at {p:?}: {t} s → {verdict:?}"
                 ),
                 // Undetectable by this measurement: it may look healthy, but never unexplained.
@@ -263,10 +241,10 @@ fn comparator_measurement_and_undetectable_faults() {
         .find(|s| s.condition == Condition::CoilOpen)
         .unwrap();
     assert_eq!(open.window.max.value(), 0.0);
-    let w = d
-        .tick_windows(&m, hz(100_000.0), Duty::new(0.02).unwrap())
-        .unwrap();
-    assert_eq!(w.classify(0), Verdict::Ambiguous);
+    let w = d.tick_windows(&m, &timing(100_000.0, 0.02)).unwrap();
+    // Zero ticks: the coil open, and any other fault whose window reaches zero; the verdict
+    // names them.
+    assert!(matches!(w.classify(0), Verdict::Ambiguous(s) if s.contains(Condition::CoilOpen)));
     // Bad thresholds are errors.
     let bad = Measurement::BetweenCurrents {
         upper: a(0.01),
@@ -318,10 +296,14 @@ fn fit_recovers_tau_and_clamp_from_textbook_decay() {
         fit_decay(&s, Seconds::new(0.0).unwrap()).unwrap_err().input,
         "sample interval"
     );
+    // A noisy buffer with a pair that rises still fits (the issue: one such pair rejected 1.7 %
+    // of noisy buffers); only what makes the fit meaningless is refused.
     let mut bumpy = s.clone();
     bumpy.swap(3, 4);
+    assert!(fit_decay(&bumpy, Seconds::new(1e-3).unwrap()).is_ok());
+    let rising: Vec<Amps> = s.iter().rev().copied().collect();
     assert_eq!(
-        fit_decay(&bumpy, Seconds::new(1e-3).unwrap())
+        fit_decay(&rising, Seconds::new(1e-3).unwrap())
             .unwrap_err()
             .reason,
         Reason::NotDecreasing
@@ -344,16 +326,9 @@ fn temperature_bands_narrow_the_healthy_window() {
         upper: a(0.080),
         lower: a(0.010),
     };
-    let full = d
-        .tick_windows(&m, hz(100_000.0), Duty::new(0.0).unwrap())
-        .unwrap();
+    let full = d.tick_windows(&m, &timing(100_000.0, 0.0)).unwrap();
     let banded = d
-        .banded_tick_windows(
-            &m,
-            hz(100_000.0),
-            Duty::new(0.0).unwrap(),
-            [tc(30.0), tc(70.0)],
-        )
+        .banded_tick_windows(&m, &timing(100_000.0, 0.0), [tc(30.0), tc(70.0)])
         .unwrap();
     let healthy = |w: &kickguard::diagnosis::Windows| {
         w.entries()
@@ -374,12 +349,7 @@ fn temperature_bands_narrow_the_healthy_window() {
         Verdict::Healthy
     );
     let e = d
-        .banded_tick_windows(
-            &m,
-            hz(100_000.0),
-            Duty::new(0.0).unwrap(),
-            [tc(50.0), tc(40.0)],
-        )
+        .banded_tick_windows(&m, &timing(100_000.0, 0.0), [tc(50.0), tc(40.0)])
         .unwrap_err();
     assert_eq!(e.reason, Reason::NotIncreasing);
 }
@@ -441,7 +411,7 @@ fn flyback_timer_with_mock_pins() {
         DelayTx::delay_ns(10_000),
     ]);
     assert_eq!(
-        measure_flyback(&mut drive, &mut sense, &mut delay, 10_000, 100),
+        measure_flyback(&mut drive, &mut sense, &mut delay, 10_000, 1, 100),
         Ok(3)
     );
     drive.done();
@@ -457,7 +427,7 @@ fn flyback_timer_with_mock_pins() {
     ]);
     let mut delay = CheckedDelay::new(&[DelayTx::delay_ns(1000), DelayTx::delay_ns(1000)]);
     assert_eq!(
-        measure_flyback(&mut drive, &mut sense, &mut delay, 1000, 2),
+        measure_flyback(&mut drive, &mut sense, &mut delay, 1000, 1, 2),
         Err(MeasureError::Timeout)
     );
     drive.done();
@@ -470,7 +440,7 @@ fn flyback_timer_with_mock_pins() {
     let mut sense = PinMock::new(&[]);
     let mut delay = CheckedDelay::new(&[]);
     assert_eq!(
-        measure_flyback(&mut drive, &mut sense, &mut delay, 1000, 2),
+        measure_flyback(&mut drive, &mut sense, &mut delay, 1000, 1, 2),
         Err(MeasureError::Output(err))
     );
     drive.done();

@@ -319,3 +319,58 @@ fn zener_tolerance_tempco_dynamic_resistance_and_self_heating() {
     let e_hand = vz * q + 2.0 * i2;
     assert!(close(e_zener, e_hand, 5e-4), "{e_zener} vs {e_hand}");
 }
+
+#[test]
+fn proposed_comparator_sits_between_health_and_avalanche() {
+    // 24 V, 0.35 H, 56 Ω fixed, 0.8 V diode, switch avalanching at 66 V. A healthy switch-off
+    // peaks at 24 + 0.8 = 24.8 V across the switch, the open clamp at 66 V: the midpoint is
+    // 45.4 V, inside both with ±2 %. The open clamp then reads for as long as it avalanches, to
+    // zero current with 42 V across the coil: τ·ln(1 + I₀R/V_c) (closed form above). Healthy
+    // reads 0 ticks, so with jitter j the slowest timer is (2j + 1)/t.
+    let diag = "[driver.diagnosis]\ncurrent_sense = [[\"300 mA\", \"100 mA\"]]\nguard = \"0 %\"\njitter = \"2 ticks\"\nshorted_turns = \"10 %\"";
+    let r = analyse(&(open_clamp_design("", "") + diag));
+    let c = check(&r, "coil", "diagnosis_proposal");
+    assert_eq!(
+        (c.status, c.shown.as_deref()),
+        (Status::Info, Some("45.4 V")),
+        "{c:?}"
+    );
+    let tau = 0.35f64 / 56.0;
+    let t = tau * (1.0 + 24.0 / 42.0f64).ln();
+    let ticks = format!(
+        "reads {} … {} ticks",
+        (t * 1e6).floor() as u32 - 2,
+        (t * 1e6).ceil() as u32 + 2
+    );
+    assert!(c.note.contains(&ticks), "{ticks}: {}", c.note);
+    let slowest = format!("is {:.0} Hz", (5.0 / t).ceil());
+    assert!(c.note.contains(&slowest), "{slowest}: {}", c.note);
+    assert!(c.note.contains("detectable at this timer"));
+    // Shorted turns (L·0.81, R·0.9 with the 10 % share) and the coil too hot are left to the
+    // on-current: the report says which measurement would show them.
+    let inv = check(&r, "coil", "diagnosis_invisible");
+    assert!(
+        inv.note.contains("coil too hot: the on-current"),
+        "{}",
+        inv.note
+    );
+    // The same fault given as factors reads the same windows.
+    let factors = diag.replace(
+        "shorted_turns = \"10 %\"",
+        "shorted_inductance = \"81 %\"\nshorted_resistance = \"90 %\"",
+    );
+    let r2 = analyse(&(open_clamp_design("", "") + &factors));
+    assert_eq!(r.drivers[0].outcome.windows, r2.drivers[0].outcome.windows);
+    // One form only.
+    let both = diag.replace(
+        "shorted_turns = \"10 %\"",
+        "shorted_turns = \"10 %\"\nshorted_inductance = \"81 %\"",
+    );
+    let e = analyse_text(
+        &(open_clamp_design("", "") + &both),
+        "c.toml",
+        &Options::default(),
+    )
+    .unwrap_err();
+    assert!(format!("{e}").contains("diagnosis.shorted_turns"), "{e}");
+}

@@ -11,7 +11,7 @@ use kickguard::coil::Coil;
 use kickguard::diagnosis::classify::Entry;
 use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::windows::winding_temperature_from_current;
-use kickguard::diagnosis::{Condition, Design, Measurement, Verdict, Windows};
+use kickguard::diagnosis::{Condition, Design, Measurement, ShortedTurns, Verdict, Windows};
 use kickguard::diode::{BandGap, Diode, DiodeParams, Ideality, Xti};
 use kickguard::input::resistor::{min_resistor, InjectionLimits};
 use kickguard::input::{Pin, SignalRange};
@@ -196,8 +196,11 @@ fn case_4_a_threshold_no_healthy_switch_off_reaches_gives_finite_gaps() {
         t_clamp_min: t(-10.0),
         t_clamp_max: t(80.0),
         clamp: Clamp::FreewheelDiode(d),
+        clamp_tolerance: 0.0,
         switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
-        shorted_turns: 0.2,
+        avalanche_tolerance: 0.0,
+        shorted: ShortedTurns::Fraction(0.2),
+        side: Side::Low,
     };
     let (_, seps) = design
         .separations(&Measurement::SwitchAbove {

@@ -6,6 +6,8 @@
 //! UC Berkeley ERL-M520, 1975).
 #![allow(dead_code)]
 
+pub mod ode;
+
 use kickguard::diode::DiodeParams;
 
 /// Boltzmann constant, J/K (exact, SI 2019 / CODATA 2018).

@@ -1,0 +1,384 @@
+//! Diagnosis as the firmware lives it: separations in ticks, compensation by the measured
+//! supply and on-current, learning a unit's own window, the fit with the clamp's slope, and the
+//! flyback timed by a hardware counter.
+//!
+//! Sources named beside each check:
+//! - The constant-clamp RL decay i(t) = (I₀ + V_c/R)·e^(−t/τ) − V_c/R (Horowitz & Hill, The Art
+//!   of Electronics, 3rd ed.; the textbook first-order solution), for hand-computed windows.
+//! - Robust statistics: the median absolute deviation scaled by 1.4826 estimates σ for normal
+//!   data (common practice; from memory).
+//! - `embedded-hal-mock` (crates.io) for the pins.
+
+use kickguard::breakdown::{Breakdown, BreakdownLaw};
+use kickguard::clamp::{Clamp, Side};
+use kickguard::coil::Coil;
+use kickguard::diagnosis::compensate::MeasuredAccuracy;
+use kickguard::diagnosis::fit::fit_decay;
+use kickguard::diagnosis::hal::{time_current_window, time_flyback, MeasureError, TickCounter};
+use kickguard::diagnosis::learn::{LearnedWindow, Learner, Reading};
+use kickguard::diagnosis::{
+    Candidates, Condition, Design, Measurement, ShortedTurns, Timing, Verdict, Windows,
+};
+use kickguard::diode::Diode;
+use kickguard::{Amps, Duty, Henries, Hertz, Ohms, PerKelvin, Seconds, Temperature, Volts};
+
+fn tc(c: f32) -> Temperature {
+    Temperature::from_celsius(c).unwrap()
+}
+
+/// A valve on a fixed-drop diode with a datasheet-line zener (affine loop: closed forms), fixed
+/// resistance (no copper coefficient) so the hand calculation has one resistance per corner.
+fn design(l_tol: f32, r_tol: f32) -> Design {
+    let z = Breakdown::new(
+        BreakdownLaw::Datasheet {
+            vz: Volts::new(18.0).unwrap(),
+            izt: Amps::new(0.01).unwrap(),
+            rz: Ohms::new(0.0).unwrap(),
+        },
+        PerKelvin::ZERO,
+        tc(25.0),
+    )
+    .unwrap();
+    Design {
+        coil: Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap(),
+        inductance_tolerance: l_tol,
+        resistance_tolerance: r_tol,
+        v_supply_min: Volts::new(24.0).unwrap(),
+        v_supply_max: Volts::new(24.0).unwrap(),
+        t_winding_min: tc(20.0),
+        t_winding_max: tc(60.0),
+        t_winding_fault_max: tc(100.0),
+        t_clamp_min: tc(20.0),
+        t_clamp_max: tc(60.0),
+        clamp: Clamp::ZenerDiode {
+            zener: z,
+            diode: Diode::FixedDrop(Volts::new(0.8).unwrap()),
+        },
+        clamp_tolerance: 0.0,
+        switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
+        avalanche_tolerance: 0.0,
+        shorted: ShortedTurns::Fraction(0.2),
+        side: Side::Low,
+    }
+}
+
+/// Closed-form time for the current to fall from i0 to i1 with constant clamp vc on L, R.
+fn t_fall(l: f64, r: f64, vc: f64, i0: f64, i1: f64) -> f64 {
+    (l / r) * ((i0 + vc / r) / (i1 + vc / r)).ln()
+}
+
+#[test]
+fn tick_separations_count_rounding_and_jitter() {
+    // Exact design (no tolerances): every window is a single time; healthy and open clamp by
+    // hand for the current window 300 → 100 mA. Healthy clamp 18.8 V, open clamp 66 − 24 V.
+    let d = design(0.0, 0.0);
+    let m = Measurement::BetweenCurrents {
+        upper: Amps::new(0.3).unwrap(),
+        lower: Amps::new(0.1).unwrap(),
+    };
+    let (l, r) = (0.35, 56.0);
+    let t_h = t_fall(l, r, 18.8, 0.3, 0.1);
+    let t_o = t_fall(l, r, 42.0, 0.3, 0.1);
+    for (f, jitter) in [(32_768.0f32, 2u32), (1.0e6, 2)] {
+        let timing = Timing {
+            tick: Hertz::new(f).unwrap(),
+            guard: Duty::new(0.0).unwrap(),
+            jitter_ticks: jitter,
+        };
+        let rep = d.tick_separations(&m, &timing).unwrap();
+        let win = |t: f64| {
+            (
+                (t * f as f64).floor() as u32 - jitter,
+                (t * f as f64).ceil() as u32 + jitter,
+            )
+        };
+        assert_eq!((rep.healthy.lo, rep.healthy.hi), win(t_h), "{f} Hz");
+        let open = rep
+            .faults
+            .iter()
+            .find(|s| s.condition == Condition::FreewheelOpen)
+            .unwrap();
+        assert_eq!((open.window.lo, open.window.hi), win(t_o));
+        assert_eq!(open.detectable, win(t_o).1 < win(t_h).0);
+        assert_eq!(open.gap_ticks, win(t_h).0 as i64 - win(t_o).1 as i64 - 1);
+    }
+    // At 32.768 kHz the healthy decay (≈ 3.4 ms) and the open clamp (≈ 1.7 ms) are far apart;
+    // make the ticks coarse enough and the jitter large enough and they meet.
+    let coarse = Timing {
+        tick: Hertz::new(1000.0).unwrap(),
+        guard: Duty::new(0.0).unwrap(),
+        jitter_ticks: 1,
+    };
+    let rep = d.tick_separations(&m, &coarse).unwrap();
+    let open = rep
+        .faults
+        .iter()
+        .find(|s| s.condition == Condition::FreewheelOpen)
+        .unwrap();
+    assert!(!open.detectable, "{open:?}");
+}
+
+#[test]
+fn ambiguous_verdicts_name_their_candidates() {
+    let rows = [[100, 200, 0], [10, 60, 1], [40, 90, 4]];
+    let w = Windows::from_rows(&rows);
+    match w.classify(50) {
+        Verdict::Ambiguous(c) => {
+            assert!(c.contains(Condition::FreewheelOpen) && c.contains(Condition::ShortedTurns));
+            assert_eq!(c.count(), 2);
+            assert_eq!(
+                c,
+                Candidates::NONE
+                    .with(Condition::FreewheelOpen)
+                    .with(Condition::ShortedTurns)
+            );
+        }
+        v => panic!("{v:?}"),
+    }
+    // The fault-against-fault overlap is known before run time.
+    let d = design(0.1, 0.07);
+    let m = Measurement::BetweenCurrents {
+        upper: Amps::new(0.3).unwrap(),
+        lower: Amps::new(0.1).unwrap(),
+    };
+    let rep = d
+        .tick_separations(
+            &m,
+            &Timing {
+                tick: Hertz::new(10_000.0).unwrap(),
+                guard: Duty::new(0.05).unwrap(),
+                jitter_ticks: 2,
+            },
+        )
+        .unwrap();
+    for s in rep.faults.iter() {
+        for o in rep.faults.iter().filter(|o| o.condition != s.condition) {
+            assert_eq!(
+                s.confused_with.contains(o.condition),
+                s.window.overlaps(&o.window)
+            );
+        }
+    }
+}
+
+#[test]
+fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
+    // Supply 20 … 28 V and R ± 20 % spread the healthy decay so wide that the open clamp's
+    // window overlaps it; measuring the supply and the on-current narrows each cell to what
+    // those readings leave open.
+    let mut d = design(0.05, 0.2);
+    d.v_supply_min = Volts::new(20.0).unwrap();
+    d.v_supply_max = Volts::new(28.0).unwrap();
+    d.clamp = Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap()));
+    let m = Measurement::BetweenCurrents {
+        upper: Amps::new(0.3).unwrap(),
+        lower: Amps::new(0.05).unwrap(),
+    };
+    let timing = Timing {
+        tick: Hertz::new(32_768.0).unwrap(),
+        guard: Duty::new(0.02).unwrap(),
+        jitter_ticks: 2,
+    };
+    let plain = d.tick_separations(&m, &timing).unwrap();
+    let acc = MeasuredAccuracy {
+        supply: 0.01,
+        current: 0.01,
+    };
+    let supply = [22.0f32, 24.0, 26.0, 28.0].map(|v| Volts::new(v).unwrap());
+    let current = [0.36f32, 0.40, 0.44, 0.48, 0.52, 0.56, 0.60].map(|a| Amps::new(a).unwrap());
+    let comp = d
+        .compensated_tick_windows(&m, &timing, &acc, supply, current)
+        .unwrap();
+    let width = |w: &Windows| w.healthy().map(|(lo, hi)| hi - lo);
+    let full = plain.healthy.hi - plain.healthy.lo;
+    let mut cells = 0;
+    for row in &comp.windows {
+        for w in row {
+            if let Some(wd) = width(w) {
+                cells += 1;
+                assert!(
+                    wd < full,
+                    "a cell's healthy window ({wd}) is not narrower than the design's ({full})"
+                );
+            }
+        }
+    }
+    assert!(cells >= 8, "{cells}");
+    // A reading: 24 V, 0.43 A (R = 55.8 Ω), healthy decay by hand, and the open clamp's.
+    let (l, r) = (0.35f64, 24.0 / 0.43);
+    let healthy = t_fall(l, r, 0.8, 0.3, 0.05);
+    let open = t_fall(l, r, 42.0, 0.3, 0.05);
+    let tick = |t: f64| (t * 32_768.0).round() as u32;
+    assert_eq!(
+        comp.classify(24_000, 430_000, tick(healthy)),
+        Verdict::Healthy
+    );
+    assert_eq!(
+        comp.classify(24_000, 430_000, tick(open)),
+        Verdict::Fault(Condition::FreewheelOpen)
+    );
+    // The resistance limit: no healthy winding reads above R_max·(1 + ε_V)/(1 − ε_I).
+    let lim = d.resistance_limit(&acc).unwrap();
+    assert_eq!(
+        lim.max_healthy_mohm,
+        (56.0f64 * 1.2 * 1.01 / 0.99 * 1000.0).ceil() as u32
+    );
+    assert!(lim.exceeded(24_000, 300_000) && !lim.exceeded(24_000, 400_000));
+}
+
+#[test]
+fn learning_a_units_own_window() {
+    let design_rows = [[100, 400, 0], [10, 60, 1]];
+    let w = Windows::from_rows(&design_rows);
+    // Normal-ish readings about 250 ± 3 ticks (a fixed pattern).
+    let readings = [
+        249u32, 252, 247, 251, 250, 253, 248, 250, 251, 249, 250, 252,
+    ];
+    let mut l: Learner<12> = Learner::new(w, 2).unwrap();
+    // A faulty first reading is refused; learning does not start from it.
+    assert_eq!(
+        l.observe(30),
+        Reading::Refused(Verdict::Fault(Condition::FreewheelOpen))
+    );
+    let mut learned = None;
+    for (k, r) in readings.iter().enumerate() {
+        match l.observe(*r) {
+            Reading::Learning { seen } => assert_eq!(seen as usize, k + 1),
+            Reading::Learned(win) => learned = Some(win),
+            other => panic!("{other:?}"),
+        }
+    }
+    let win = learned.unwrap();
+    // Median 250, MAD 1 (|x − 250| sorted: 0,0,0,1,1,1,1,2,2,2,3,3 → lower middle 1): 250 ± (6 + 2).
+    assert_eq!((win.lo, win.hi), (242, 258));
+    assert_eq!(l.observe(251), Reading::Healthy);
+    assert_eq!(l.observe(300), Reading::Departure); // healthy for the design, not for this unit
+    assert_eq!(
+        l.observe(40),
+        Reading::Fault(Verdict::Fault(Condition::FreewheelOpen))
+    );
+    // Persisted and restored; a stored window outside the design's healthy one is refused.
+    let bytes = win.to_bytes();
+    assert_eq!(LearnedWindow::from_bytes(&bytes, &w).unwrap(), win);
+    let wide = LearnedWindow { lo: 50, hi: 300 }.to_bytes();
+    assert!(LearnedWindow::from_bytes(&wide, &w).is_err());
+    let mut r: Learner<12> = Learner::resume(w, 2, win).unwrap();
+    assert_eq!(r.observe(245), Reading::Healthy);
+    // A learner too small to learn anything is refused.
+    assert!(Learner::<2>::new(w, 2).is_err());
+}
+
+#[test]
+fn fit_recovers_l_with_the_clamps_slope() {
+    // Samples of an affine-loop decay L·di/dt = −(V₀ + (R + r_s)·i): τ = L/(R + r_s). With the
+    // slope left out, L = τ·R is off by r_s/(R + r_s); with it, exact.
+    let (l, r, rs, v0) = (0.35f64, 56.0f64, 20.0f64, 18.6f64);
+    let rt = r + rs;
+    let tau = l / rt;
+    let i0 = 0.43f64;
+    let s: Vec<Amps> = (0..40)
+        .map(|k| {
+            let t = k as f64 * 1e-4;
+            Amps::new(((i0 + v0 / rt) * (-t / tau).exp() - v0 / rt) as f32).unwrap()
+        })
+        .collect();
+    let f = fit_decay(&s, Seconds::new(1e-4).unwrap()).unwrap();
+    let rec = f
+        .recover(Ohms::new(r as f32).unwrap(), Ohms::new(rs as f32).unwrap())
+        .unwrap();
+    assert!(
+        (rec.inductance.value() as f64 - l).abs() < 1e-3 * l,
+        "{rec:?}"
+    );
+    assert!(
+        (rec.clamp_voltage.value() as f64 - v0).abs() < 1e-2 * v0,
+        "{rec:?}"
+    );
+    let naive = f.inductance(Ohms::new(r as f32).unwrap()).unwrap().value() as f64;
+    assert!((naive / l - r / rt).abs() < 1e-3);
+}
+
+/// A counter the test steps: each read advances by a fixed number of ticks.
+struct Steps {
+    now: u32,
+    per_read: u32,
+}
+impl TickCounter for Steps {
+    fn ticks(&mut self) -> u32 {
+        let t = self.now;
+        self.now = self.now.wrapping_add(self.per_read);
+        t
+    }
+}
+
+#[test]
+fn flyback_timed_by_a_hardware_counter() {
+    use embedded_hal_mock::eh1::digital::{Mock as PinMock, State, Transaction as PinTx};
+    // Drain comparator: high for three polls, each 7 ticks apart; the counter wraps on the way.
+    let mut drive = PinMock::new(&[PinTx::set(State::Low)]);
+    let mut sense = PinMock::new(&[
+        PinTx::get(State::High),
+        PinTx::get(State::High),
+        PinTx::get(State::High),
+        PinTx::get(State::Low),
+    ]);
+    let mut counter = Steps {
+        now: u32::MAX - 10,
+        per_read: 7,
+    };
+    // start read, then one read per poll: the low read sees 4 × 7 = 28 ticks elapsed.
+    assert_eq!(
+        time_flyback(&mut drive, &mut sense, &mut counter, 1000),
+        Ok(28)
+    );
+    drive.done();
+    sense.done();
+    // Current window: upper falls at the 2nd poll, lower at the 3rd of its own.
+    let mut drive = PinMock::new(&[PinTx::set(State::Low)]);
+    let mut both = PinMock::new(&[
+        PinTx::get(State::High),
+        PinTx::get(State::Low),
+        PinTx::get(State::High),
+        PinTx::get(State::High),
+        PinTx::get(State::Low),
+    ]);
+    let mut upper = both.clone();
+    let mut counter = Steps {
+        now: 0,
+        per_read: 5,
+    };
+    assert_eq!(
+        time_current_window(&mut drive, &mut upper, &mut both, &mut counter, 1000),
+        Ok(15)
+    );
+    drive.done();
+    both.done();
+    // A counter that does not advance ends in a timeout, not a hang.
+    let mut drive = PinMock::new(&[PinTx::set(State::Low)]);
+    let mut sense = AlwaysHigh(0);
+    let mut stuck = Steps {
+        now: 5,
+        per_read: 0,
+    };
+    assert_eq!(
+        time_flyback(&mut drive, &mut sense, &mut stuck, 0),
+        Err(MeasureError::Timeout)
+    );
+    assert_eq!(sense.0, kickguard::diagnosis::hal::POLLS_PER_TICK);
+    drive.done();
+}
+
+/// A comparator stuck high, counting its reads.
+struct AlwaysHigh(u64);
+impl embedded_hal::digital::ErrorType for AlwaysHigh {
+    type Error = core::convert::Infallible;
+}
+impl embedded_hal::digital::InputPin for AlwaysHigh {
+    fn is_high(&mut self) -> Result<bool, Self::Error> {
+        self.0 += 1;
+        Ok(true)
+    }
+    fn is_low(&mut self) -> Result<bool, Self::Error> {
+        Ok(false)
+    }
+}
