@@ -227,17 +227,17 @@ impl Windows {
                 return Verdict::Healthy;
             }
         }
-        let mut set = 0u8;
-        for ((&lo, &span), &bit) in self
-            .fault_lo
-            .iter()
-            .zip(self.fault_span.iter())
-            .zip(self.fault_bit.iter())
-        {
-            // Branch-free: the slot's bit where the reading is inside, else nothing.
-            let inside = ticks.wrapping_sub(lo) < span;
-            set |= bit & (inside as u8).wrapping_neg();
-        }
+        // Written out for the six slots (the pattern fails to compile if MAX_WINDOWS changes):
+        // straight-line code, no loop counter, the same on a core that does not unroll.
+        let [l0, l1, l2, l3, l4, l5] = self.fault_lo;
+        let [s0, s1, s2, s3, s4, s5] = self.fault_span;
+        let [b0, b1, b2, b3, b4, b5] = self.fault_bit;
+        let set = hit(ticks, l0, s0, b0)
+            | hit(ticks, l1, s1, b1)
+            | hit(ticks, l2, s2, b2)
+            | hit(ticks, l3, s3, b3)
+            | hit(ticks, l4, s4, b4)
+            | hit(ticks, l5, s5, b5);
         // One bit set: x & (x − 1) clears the lowest bit (no population count, which a core
         // without one would run in software). set ≥ 1 there, so the subtraction cannot wrap.
         if set == 0 {
@@ -251,6 +251,13 @@ impl Windows {
             Verdict::Ambiguous(Candidates(set))
         }
     }
+}
+
+/// A slot's candidate bit where `ticks` is inside it (`ticks − lo < span`, wrapping), else 0.
+/// Branch-free.
+#[inline(always)]
+const fn hit(ticks: u32, lo: u32, span: u32, bit: u8) -> u8 {
+    bit & ((ticks.wrapping_sub(lo) < span) as u8).wrapping_neg()
 }
 
 /// Windows per temperature band: the measured winding (or board) temperature selects a narrower

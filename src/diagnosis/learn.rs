@@ -186,18 +186,19 @@ impl<const N: usize> Learner<N> {
         Reading::Learned(w)
     }
 
-    /// Median ± 6·MAD + margin, clipped to the design's healthy window.
-    fn window(&self) -> LearnedWindow {
-        let mut s = self.buf;
-        sort(&mut s);
-        let m = median(&s);
-        let mut dev = [0u32; N];
-        for (d, x) in dev.iter_mut().zip(s.iter()) {
-            *d = x.abs_diff(m);
+    /// Median ± 6·MAD + margin, clipped to the design's healthy window. Works in the
+    /// learner's own buffer (the readings are not needed once learned: `forget` starts over),
+    /// so its stack does not grow with N.
+    fn window(&mut self) -> LearnedWindow {
+        let s = &mut self.buf;
+        sort(s);
+        let m = median(s);
+        for x in s.iter_mut() {
+            *x = x.abs_diff(m);
         }
-        sort(&mut dev);
+        sort(s);
         // A MAD of zero (identical readings) still leaves one tick.
-        let spread = median(&dev)
+        let spread = median(s)
             .max(1)
             .saturating_mul(6)
             .saturating_add(self.margin_ticks);
