@@ -98,7 +98,9 @@ fn mutated_design_files_never_panic() {
 #[test]
 fn fuzzer_regressions_stay_fixed() {
     // Found by `cargo fuzz run quantity`: "4.e307kΩ" overflowed f64 after the prefix.
-    for entry in std::fs::read_dir("fuzz/regressions").unwrap() {
+    let mut replayed = 0;
+    for entry in std::fs::read_dir("tests/fuzz_regressions").unwrap() {
+        replayed += 1;
         let data = std::fs::read(entry.unwrap().path()).unwrap();
         let text = String::from_utf8_lossy(&data);
         for u in [
@@ -114,4 +116,8 @@ fn fuzzer_regressions_stay_fixed() {
         }
         let _ = analyse_text(&text, "regression.toml", &Options::default());
     }
+    assert!(
+        replayed > 0,
+        "no regression input found in tests/fuzz_regressions"
+    );
 }

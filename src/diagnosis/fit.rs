@@ -8,7 +8,7 @@
 //! ```
 //!
 //! (substitute t + h into i(t) = (I₀ + Vc/R)·e^(−t/τ) − Vc/R). Ordinary least squares of i[k+1]
-//! on i[k] estimates α and β with no derivative approximation; then τ = −h/ln α and
+//! on `i[k]` estimates α and β with no derivative approximation; then τ = −h/ln α and
 //! Vc/R = −β/(1 − α). With R known (from the on-current), L = τ·R and Vc = R·(Vc/R), and the
 //! clamp kind is the candidate whose voltage is closest ([`DecayFit::closest_clamp`]). For a diode
 //! clamp, whose voltage is not constant, the fit returns the effective values over the samples.

@@ -6,7 +6,7 @@
 //! firmware's `build.rs`, which fails the build with the reason when the design is unsafe.
 //!
 //! The data flows one way, one job per module:
-//! 1. [`file`]: the text → the file's schema, every error located `file:line:column: field`;
+//! 1. [`file`](mod@file): the text → the file's schema, every error located `file:line:column: field`;
 //! 2. [`board`]: the schema → a typed, validated board (units resolved, ranges and rules
 //!    between fields checked, tolerances kept as axis ranges);
 //! 3. [`corners`], [`parts`], [`figures`], [`heating`], [`sizing`], [`engine`]: each driver's

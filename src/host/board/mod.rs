@@ -77,7 +77,7 @@ pub struct DriverBoard {
     pub name: String,
     /// Identifier of its generated constants ("pump_relay").
     pub module: String,
-    /// Path of its table in the file ("driver[1]").
+    /// Path of its table in the file (`"driver[1]"`).
     pub field: String,
     /// How many identical drivers.
     pub count: u32,

@@ -30,7 +30,7 @@ pub const TOO_HOT_SPAN_K: f32 = 50.0;
 /// zero; a current window whose lower threshold is at or above the start current reads zero.
 ///
 /// # Errors
-/// The library's refusals (see [`profile::run`]).
+/// The library's refusals (see `profile::run`).
 pub fn measure(
     off: &SwitchOff,
     to_end: bool,
