@@ -14,7 +14,7 @@
 //!   functions; this layer adds only pointer checks and copies).
 //!
 //! The only unsafe operations (turning a raw pointer into a reference or a slice) are in the
-//! four pointer helpers below, each with its safety argument; the exported functions are
+//! four pointer helpers below (and the link-proof panic handler of the `panic-proof` feature), each with its safety argument; the exported functions are
 //! `unsafe extern "C"` because their contract (a non-null pointer is valid for the access) is
 //! the caller's, and call the helpers in `unsafe` blocks that forward exactly that contract.
 #![cfg_attr(target_os = "none", no_std)]
@@ -580,10 +580,23 @@ pub unsafe extern "C" fn kg_fit_decay(
     })
 }
 
+/// The panic handler a bare-metal static library needs. Unreachable: every call goes to
+/// panic-free library functions. With the feature `panic-proof` it calls a symbol that does not
+/// exist instead, so that linking a program against this crate (`cortex-m/src/bin/c_test.rs`)
+/// proves no panic path is reachable from the exported functions. (A Rust firmware uses
+/// kickguard directly, with its own handler, not this crate.)
 #[cfg(target_os = "none")]
 #[panic_handler]
 fn panic(_: &core::panic::PanicInfo) -> ! {
-    // Unreachable: every call goes to panic-free library functions (the library's link-time
-    // proof); a firmware that links this library with its own handler keeps that one.
+    #[cfg(feature = "panic-proof")]
+    {
+        extern "Rust" {
+            #[link_name = "__PANIC_PATH_IS_REACHABLE__see_linker_error"]
+            fn panic_is_reachable() -> !;
+        }
+        // SAFETY: the symbol does not exist; this call exists only to make the link fail.
+        unsafe { panic_is_reachable() }
+    }
+    #[cfg(not(feature = "panic-proof"))]
     loop {}
 }

@@ -40,7 +40,9 @@ fn run_c() -> HashMap<String, (i32, f64, String)> {
         .arg(dir.join("include"))
         .arg(dir.join("tests/c/smoke.c"))
         .arg(&lib)
-        .args(["-lpthread", "-ldl", "-lm", "-o"])
+        // --gc-sections: only what the program reaches is linked (a build with kickguard's `defmt`
+        // feature on leaves references to a logger the program does not have in unused code).
+        .args(["-Wl,--gc-sections", "-lpthread", "-ldl", "-lm", "-o"])
         .arg(&exe)
         .output()
         .expect("a C compiler (cc)");
