@@ -382,3 +382,66 @@ impl embedded_hal::digital::InputPin for AlwaysHigh {
         Ok(false)
     }
 }
+
+#[test]
+fn proposed_comparator_by_hand() {
+    // Healthy peak across the switch: 24 + 18 + 0.8 = 42.8 V; open clamp: the 66 V avalanche.
+    // Midpoint 54.4 V, inside both with ±2 %. The open clamp reads the whole avalanche, to zero
+    // current with 66 − 24 = 42 V across the coil: τ·ln(1 + I₀R/V) (the closed form of
+    // `t_fall`); with jitter j and no guard the slowest separating timer is (2j + 1)/t.
+    let d = design(0.0, 0.0);
+    let timing = Timing {
+        tick: Hertz::new(10_000.0).unwrap(),
+        guard: Duty::new(0.0).unwrap(),
+        jitter_ticks: 2,
+    };
+    let p = d
+        .propose_comparator(&timing, 0.02)
+        .unwrap()
+        .expect("a threshold fits");
+    assert!((p.healthy_peak_max.value() - 42.8).abs() < 1e-4, "{p:?}");
+    assert!((p.open_peak_min.value() - 66.0).abs() < 1e-4, "{p:?}");
+    assert!((p.threshold.value() - 54.4).abs() < 1e-4, "{p:?}");
+    let t = t_fall(0.35, 56.0, 42.0, 24.0 / 56.0, 0.0);
+    assert!(
+        (p.open_reading.min.value() as f64 - t).abs() < 1e-4 * t,
+        "{p:?} vs {t}"
+    );
+    assert_eq!(p.slowest_tick.value(), (5.0 / t).ceil() as f32);
+    // At that timer the windows agree: healthy [0, 2], the open clamp clear of it.
+    let slow = Timing {
+        tick: p.slowest_tick,
+        ..timing
+    };
+    let rep = d.tick_separations(&p.measurement(), &slow).unwrap();
+    assert!(rep
+        .faults
+        .iter()
+        .any(|f| f.condition == Condition::FreewheelOpen && f.detectable));
+    // A switch avalanching at 46 V leaves 44.4 V ± 2 % room, not ± 5 %: none then; a bad
+    // tolerance is a typed error naming it.
+    let close = Design {
+        switch_avalanche: Breakdown::ideal(Volts::new(46.0).unwrap()).unwrap(),
+        ..d
+    };
+    let fits = close
+        .propose_comparator(&timing, 0.02)
+        .unwrap()
+        .map(|p| p.threshold.value());
+    assert!(fits.is_some_and(|v| (v - 44.4).abs() < 1e-4), "{fits:?}");
+    assert_eq!(
+        close
+            .propose_comparator(&timing, 0.05)
+            .unwrap()
+            .map(|p| p.threshold),
+        None
+    );
+    assert_eq!(
+        d.propose_comparator(&timing, f32::NAN).unwrap_err().input,
+        "comparator tolerance"
+    );
+    assert_eq!(
+        d.propose_comparator(&timing, 0.5).unwrap_err().input,
+        "comparator tolerance"
+    );
+}

@@ -589,6 +589,10 @@ fn diagnosis() -> Result<(), Error> {
         [Amps::new(bb(0.1))?, Amps::new(bb(0.14))?],
     )?;
     bb(comp.classify(bb(12_000), bb(110_000), bb(500)));
+    bb(comp.cell(bb(12_000), bb(110_000)).is_some());
+    if let Some(p) = design.propose_comparator(&timing, bb(0.02))? {
+        bb((p.measurement(), p.slowest_tick));
+    }
     let lim = design.resistance_limit(&acc)?;
     bb(lim.exceeded(bb(12_000), bb(90_000)));
     let v = w.classify(bb(1234));
