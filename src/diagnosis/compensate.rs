@@ -24,7 +24,7 @@
 //! of the cell's [`Windows`], integer comparisons only.
 
 use super::classify::{Entry, Verdict, Windows, MAX_WINDOWS};
-use super::windows::{clamp_scaled, Design, Measurement, TimeWindow, Timing};
+use super::windows::{clamp_scaled, tick_table, Design, Measurement, TimeWindow, Timing};
 use super::Condition;
 use crate::clamp::{Clamp, Operating, SwitchOff};
 use crate::coil::Coil;
@@ -233,14 +233,12 @@ impl Design {
         v: (f32, f32),
         i: (f32, f32),
     ) -> Result<Windows, Error> {
-        let mut entries = [Entry::EMPTY; MAX_WINDOWS];
-        let mut n = 0usize;
         let r_cell = (
             v.0 / i.1.max(1e-30),
             if i.0 > 0.0 { v.1 / i.0 } else { f32::INFINITY },
         );
-        for cond in Condition::ALL {
-            let w = match cond {
+        tick_table(timing, |cond| {
+            Ok(match cond {
                 Condition::CoilOpen if i.0 <= 0.0 => Some(TimeWindow {
                     min: Seconds::raw(0.0),
                     max: Seconds::raw(0.0),
@@ -259,19 +257,8 @@ impl Design {
                         self.cell_window(cond, m, v, (i.0.max(v.0 / r.1), i.1.min(v.1 / r.0)), r)?
                     }
                 }
-            };
-            if let (Some(w), Some(slot)) = (w, entries.get_mut(n)) {
-                let (lo, hi) = timing.ticks(w)?;
-                *slot = Entry {
-                    lo,
-                    hi,
-                    condition: cond,
-                };
-                // n < MAX_WINDOWS here: cannot saturate.
-                n = n.saturating_add(1);
-            }
-        }
-        Ok(Windows::from_entries(entries, n))
+            })
+        })
     }
 
     /// One condition's window over a cell: supply `v`, start current `i`, resistance `r`.

@@ -487,24 +487,32 @@ impl Design {
     /// `timing` invalid → see [`Timing::validate`]; errors of [`Design::window`] and
     /// [`to_ticks`].
     pub fn tick_windows(&self, m: &Measurement, timing: &Timing) -> Result<Windows, Error> {
-        let mut entries = [Entry::EMPTY; MAX_WINDOWS];
-        let mut n = 0usize;
-        for cond in Condition::ALL {
-            if let Some(w) = self.window(cond, m)? {
-                if let Some(slot) = entries.get_mut(n) {
-                    let (lo, hi) = timing.ticks(w)?;
-                    *slot = Entry {
-                        lo,
-                        hi,
-                        condition: cond,
-                    };
-                    // n < MAX_WINDOWS here (the slot existed): cannot saturate.
-                    n = n.saturating_add(1);
-                }
-            }
-        }
-        Ok(Windows::from_entries(entries, n))
+        tick_table(timing, |cond| self.window(cond, m))
     }
+}
+
+/// The run-time windows of the conditions `window_of` gives a window for (in
+/// [`Condition::ALL`] order), each converted to ticks by `timing`. Work: six calls of
+/// `window_of` and six conversions.
+pub(crate) fn tick_table(
+    timing: &Timing,
+    mut window_of: impl FnMut(Condition) -> Result<Option<TimeWindow>, Error>,
+) -> Result<Windows, Error> {
+    let mut entries = [Entry::EMPTY; MAX_WINDOWS];
+    let mut n = 0usize;
+    for cond in Condition::ALL {
+        if let (Some(w), Some(slot)) = (window_of(cond)?, entries.get_mut(n)) {
+            let (lo, hi) = timing.ticks(w)?;
+            *slot = Entry {
+                lo,
+                hi,
+                condition: cond,
+            };
+            // n < MAX_WINDOWS here (the slot existed): cannot saturate.
+            n = n.saturating_add(1);
+        }
+    }
+    Ok(Windows::from_entries(entries, n))
 }
 
 /// How the firmware times a measurement: its tick rate, the relative guard band added to every
