@@ -4,52 +4,21 @@
 //! lengths, NaN, ±∞, unknown codes). Every good result must equal the Rust library's own, bit
 //! for bit; every hostile one must be the expected status code naming the expected input.
 
-use kickguard::clamp::closed_form::ConstantClamp;
-use kickguard::coil::Coil;
-use kickguard::diagnosis::fit::fit_decay;
-use kickguard::diode::DiodeParams;
-use kickguard::{Amps, Henries, Ohms, PerKelvin, Seconds, Temperature, Volts};
+mod common;
+mod reference {
+    include!("c/reference.rs");
+}
+
 use std::collections::HashMap;
 use std::path::PathBuf;
 use std::process::Command;
 
-/// The static library cargo built for this test run: the newest `libkickguard_capi-*.a` beside
-/// this test's own binary (target/<profile>/deps).
-fn static_lib() -> PathBuf {
-    let exe = std::env::current_exe().unwrap();
-    let deps = exe.parent().unwrap();
-    std::fs::read_dir(deps)
-        .unwrap()
-        .filter_map(|e| e.ok().map(|e| e.path()))
-        .filter(|p| {
-            let n = p.file_name().unwrap().to_string_lossy();
-            n.starts_with("libkickguard_capi-") && n.ends_with(".a")
-        })
-        .max_by_key(|p| p.metadata().and_then(|m| m.modified()).unwrap())
-        .expect("cargo builds the static library for the test run")
-}
-
 fn run_c() -> HashMap<String, (i32, f64, String)> {
     let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR"));
-    let lib = static_lib();
-    let exe = lib.with_file_name("kickguard_c_smoke");
-    let cc = Command::new("cc")
-        .args(["-std=c99", "-Wall", "-Wextra", "-pedantic", "-Werror", "-g"])
-        .args(["-fsanitize=address,undefined", "-fno-sanitize-recover=all"])
-        .arg("-I")
-        .arg(dir.join("include"))
-        .arg(dir.join("tests/c/smoke.c"))
-        .arg(&lib)
-        // --gc-sections: only what the program reaches is linked (a build with kickguard's `defmt`
-        // feature on leaves references to a logger the program does not have in unused code).
-        .args(["-Wl,--gc-sections", "-lpthread", "-ldl", "-lm", "-o"])
-        .arg(&exe)
-        .output()
-        .expect("a C compiler (cc)");
-    assert!(
-        cc.status.success(),
-        "cc: {}",
-        String::from_utf8_lossy(&cc.stderr)
+    let exe = common::build_c(
+        &dir.join("tests/c/smoke.c"),
+        &[&dir.join("include")],
+        "kickguard_c_smoke",
     );
     let out = Command::new(&exe).output().unwrap();
     assert!(
@@ -83,70 +52,20 @@ fn c_program_matches_the_library_and_refuses_hostile_input() {
         let (c, _, i) = &r[name];
         assert_eq!((*c, i.as_str()), (code, input), "{name}");
     };
-    let t = |c: f32| Temperature::from_celsius(c).unwrap();
-    let p = DiodeParams::SILICON;
-    ok("preset", p.is().value());
-    // The C side carries the parameters as plain data and rebuilds them (ln IS recomputed).
-    let d = DiodeParams::new(p.is(), p.n(), p.rs(), p.eg(), p.xti(), p.tnom()).unwrap();
-    ok(
-        "drop",
-        d.forward_drop(Amps::new(0.4).unwrap(), t(25.0))
-            .unwrap()
-            .value(),
-    );
-    ok(
-        "thermometer",
-        d.junction_temperature(Amps::new(1e-3).unwrap(), Volts::new(0.6).unwrap())
-            .unwrap()
-            .celsius(),
-    );
-    let coil = Coil::new(
-        Henries::new(0.35).unwrap(),
-        Ohms::new(56.0).unwrap(),
-        t(20.0),
-        PerKelvin::new(0.00393).unwrap(),
-    )
-    .unwrap();
-    ok("resistance", coil.resistance(t(85.0)).unwrap().value());
-    ok(
-        "winding",
-        coil.winding_temperature(Ohms::new(64.8).unwrap())
-            .unwrap()
-            .celsius(),
-    );
-    ok(
-        "current",
-        coil.steady_current(Volts::new(24.0).unwrap(), t(25.0))
-            .unwrap()
-            .value(),
-    );
-    let cc = ConstantClamp::new(
-        Henries::new(0.35).unwrap(),
-        Ohms::new(56.0).unwrap(),
-        Volts::new(42.0).unwrap(),
-        Amps::new(0.43).unwrap(),
-    )
-    .unwrap();
-    let dec = cc.decay_to(Amps::new(0.0).unwrap()).unwrap();
-    ok("decay_time", dec.time.value());
-    ok("decay_energy", dec.clamp_energy.value());
+    let want = reference::c_reference();
+    ok("preset", want.preset_is);
+    ok("drop", want.drop);
+    ok("thermometer", want.thermometer);
+    ok("resistance", want.r85);
+    ok("winding", want.winding);
+    ok("current", want.current);
+    ok("decay_time", want.decay_time);
+    ok("decay_energy", want.decay_clamp_j);
     ok("classify_healthy", 0.0);
     ok("classify_open", 1.0);
     ok("classify_none", 3.0);
     ok("history", 16.0);
-    let mut s = [Amps::new(0.0).unwrap(); 8];
-    let mut x = 0.43f32;
-    for a in s.iter_mut() {
-        *a = Amps::new(x).unwrap();
-        x *= 0.984127;
-    }
-    ok(
-        "fit",
-        fit_decay(&s, Seconds::new(1e-4).unwrap())
-            .unwrap()
-            .tau
-            .value(),
-    );
+    ok("fit", want.fit_tau);
     // Reason codes (kickguard::Reason::code): 1 not finite, 2 not positive; this layer: 100 null
     // pointer, 101 bad length, 102 unknown code.
     refused("drop_nan", 1, "current (A)");
