@@ -24,9 +24,9 @@ static uint32_t flyback_ticks_stub(int k) {
 int main(void) {
     kg_history history;
     history.len = 0;
-    const kg_verdict open = {1, 1, 0};
+    const kg_verdict open = {KG_VERDICT_FAULT, KG_CONDITION_CLAMP_OPEN, 0};
     for (int k = 0; k < 12; k++) {
-        /* gate_off(); wait KICKGUARD_VALVE_RELEASE_WAIT_TICKS; read the capture: */
+        /* gate_off(); read the capture; wait KICKGUARD_VALVE_REENERGISE_WAIT_TICKS before the next switch-on: */
         uint32_t ticks = flyback_ticks_stub(k);
         kg_verdict v;
         kg_status s = kg_classify(WINDOWS, KICKGUARD_VALVE_DIAG_1_WINDOWS_ROWS, ticks, &v);

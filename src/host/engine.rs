@@ -8,7 +8,6 @@ use super::figures::{self, Context, Figures};
 use super::heating;
 use super::sizing::{self, HoldChoice, ZenerChoice};
 use super::HostError;
-use crate::units::Amps;
 use std::format;
 use std::vec::Vec;
 
@@ -31,10 +30,6 @@ pub struct DriverRun {
     pub zener: Option<ZenerChoice>,
     /// The hold sizing, if the driver holds.
     pub hold: Option<HoldChoice>,
-    /// The release current of the magnetic circuit (its lowest value), if given.
-    pub release_current: Option<Amps>,
-    /// The operate current of the magnetic circuit (its highest value), if given.
-    pub operate_current: Option<Amps>,
     /// The vertices of the box.
     pub points: Vec<Point>,
     /// The figures at each vertex.
@@ -47,7 +42,7 @@ impl DriverRun {
         Context {
             board,
             d: &self.d,
-            release_current: self.release_current,
+            release_voltage: self.d.release,
             hold: self.hold.and_then(|h| h.plan),
             winding: self.space.range(Axis::Winding),
         }
@@ -69,22 +64,6 @@ pub fn refused(
             space.describe(p)
         ),
     )
-}
-
-/// The magnetic circuit's release and operate currents: the datasheet voltage over the coil
-/// resistance at its reference temperature, at the end of the resistance tolerance that makes
-/// each worst (release: lowest current, R high; operate: highest current, R low).
-fn magnetic(d: &DriverBoard) -> Result<(Option<Amps>, Option<Amps>), crate::Error> {
-    let r = d.coil.resistance_ref().value();
-    let rel = d
-        .release
-        .map(|v| Amps::new(v.value() / (r * (1.0 + d.r_tol))))
-        .transpose()?;
-    let op = d
-        .operate
-        .map(|v| Amps::new(v.value() / (r * (1.0 - d.r_tol))))
-        .transpose()?;
-    Ok((rel, op))
 }
 
 /// The figures at every point.
@@ -113,7 +92,6 @@ fn capped(board: &Board, r: Rises) -> (Rises, bool) {
 fn zener_for(
     board: &Board,
     d: &DriverBoard,
-    rel: Option<Amps>,
     space: &Space,
     points: &[Point],
 ) -> Result<Option<ZenerChoice>, HostError> {
@@ -122,13 +100,13 @@ fn zener_for(
     }
     let limit = d.max_release_time.map(|t| t.value());
     let release_ok = |cand: &DriverBoard| -> Result<bool, crate::Error> {
-        let (Some(limit), Some(_)) = (limit, rel) else {
+        let (Some(limit), Some(_)) = (limit, d.release) else {
             return Ok(true);
         };
         let cx = Context {
             board,
             d: cand,
-            release_current: rel,
+            release_voltage: d.release,
             hold: None,
             winding: space.range(Axis::Winding),
         };
@@ -154,8 +132,6 @@ fn zener_for(
 /// # Errors
 /// A model refusal at a corner, located at the driver.
 pub fn run_driver(board: &Board, d: &DriverBoard) -> Result<DriverRun, HostError> {
-    let (release_current, operate_current) = magnetic(d)
-        .map_err(|e| board.fault(&format!("{}.coil.must_release", d.field), format!("{e}")))?;
     let mut rises = Rises::default();
     let mut pass = 0usize;
     loop {
@@ -163,7 +139,7 @@ pub fn run_driver(board: &Board, d: &DriverBoard) -> Result<DriverRun, HostError
         let (used, was_capped) = capped(board, rises);
         let space = Space::for_driver(board, d, used);
         let points = space.vertices();
-        let zener = zener_for(board, d, release_current, &space, &points)?;
+        let zener = zener_for(board, d, &space, &points)?;
         let sized = match zener {
             Some(z) => sizing::with_zener(d, z.chosen),
             None => d.clone(),
@@ -177,7 +153,7 @@ pub fn run_driver(board: &Board, d: &DriverBoard) -> Result<DriverRun, HostError
         let cx = Context {
             board,
             d: &sized,
-            release_current,
+            release_voltage: sized.release,
             hold: hold.and_then(|h| h.plan),
             winding: space.range(Axis::Winding),
         };
@@ -192,8 +168,6 @@ pub fn run_driver(board: &Board, d: &DriverBoard) -> Result<DriverRun, HostError
                 settled: done && !was_capped,
                 zener,
                 hold,
-                release_current,
-                operate_current,
                 points,
                 figures,
             });

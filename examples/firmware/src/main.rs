@@ -11,11 +11,15 @@ use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::{Condition, Verdict, Windows};
 
 fn main() {
-    // After switching a valve off, wait this many ticks before re-energising it.
+    // After switching a valve off: the valve is closed after RELEASE_WAIT_TICKS; before
+    // re-energising (or reversing) it the firmware waits REENERGISE_WAIT_TICKS, the longer of
+    // that and the decay of the current (DECAY_WAIT_TICKS).
     println!(
-        "valve: wait {} ticks of {} Hz before re-energising",
+        "valve: closed {} ticks of {} Hz after switch-off; current decayed after {}; re-energise after {}",
         config::valve::RELEASE_WAIT_TICKS,
-        config::TICK_HZ
+        config::TICK_HZ,
+        config::valve::DECAY_WAIT_TICKS,
+        config::valve::REENERGISE_WAIT_TICKS
     );
     println!(
         "valve: full drive for {} ticks, then hold with {} of {} PWM counts on",

@@ -66,21 +66,22 @@ pub fn convert(f: &DesignFile, r: &Reader<'_>) -> Result<Board, HostError> {
     })
 }
 
-/// Two subjects with one name (or one identifier) would share their constants.
+/// Two subjects (drivers and inputs alike) with one name, or with names that give one
+/// identifier, would share their generated module: refused at the later one's name.
 pub(super) fn unique_names<'a>(
     r: &Reader<'_>,
     names: impl Iterator<Item = (&'a str, &'a str)>,
 ) -> Result<(), HostError> {
-    let mut seen: Vec<String> = Vec::new();
+    let mut seen: Vec<(String, &str)> = Vec::new();
     for (name, field) in names {
         let id = crate::host::ident(name);
-        if seen.contains(&id) {
+        if let Some((_, first)) = seen.iter().find(|(s, _)| *s == id) {
             return Err(r.at(
                 &format!("{field}.name"),
-                format!("\"{name}\" is used twice (its constants would clash)"),
+                format!("its identifier `{id}` is already {first}'s: the generated constants would clash; choose another name"),
             ));
         }
-        seen.push(id);
+        seen.push((id, field));
     }
     Ok(())
 }
@@ -281,30 +282,40 @@ fn coil(r: &Reader<'_>, field: &str, c: &file::CoilSpec) -> Result<(Coil, f32, f
     Ok((coil, l_tol, r_tol))
 }
 
-/// A must-operate or must-release value: a share of the nominal supply ("60 %") or a voltage.
+/// A must-operate or must-release value: a share of the coil's rated voltage ("60 %") or a
+/// voltage. A share needs `rated_voltage`: a relay datasheet's percentages are of the rated
+/// coil voltage, not of whatever supply the coil runs from.
 fn datasheet_voltage(
     r: &Reader<'_>,
     q: &Option<file::Q>,
     field: &str,
+    rated: Option<Volts>,
     nominal: Volts,
 ) -> Result<Option<Volts>, HostError> {
     let Some(q) = q else { return Ok(None) };
     let v = if q.get_ref().trim_end().ends_with('%') {
+        let Some(rated) = rated else {
+            return Err(r.at(
+                field,
+                "a percentage is of the coil's rated voltage: give coil.rated_voltage (the datasheet's nominal coil voltage, e.g. \"12 V\") or write the voltage itself",
+            ));
+        };
         r.q(
             q,
             field,
             Unit::Percent,
-            range(0.001, 1.5, "0.1 … 150 % of the nominal supply"),
-        )? * nominal.value()
+            range(0.001, 1.5, "0.1 … 150 % of the rated coil voltage"),
+        )? * rated.value()
     } else {
+        let top = rated.unwrap_or(nominal).value().max(nominal.value());
         r.q(
             q,
             field,
             Unit::Volt,
             range(
                 1e-3,
-                1.5 * nominal.value() as f64,
-                "1 mV … 1.5 × the nominal supply",
+                1.5 * top as f64,
+                "1 mV … 1.5 × the rated coil voltage (or the supply's nominal)",
             ),
         )?
     };
@@ -317,16 +328,28 @@ fn magnetic(
     c: &file::CoilSpec,
     nominal: Volts,
 ) -> Result<(Option<Volts>, Option<Volts>), HostError> {
+    let rated_field = format!("{field}.coil.rated_voltage");
+    let rated = r
+        .oq(
+            &c.rated_voltage,
+            &rated_field,
+            Unit::Volt,
+            range(1e-3, 1e4, "1 mV … 10 kV"),
+        )?
+        .map(|v| Volts::new(v).map_err(|e| r.model(&rated_field, e)))
+        .transpose()?;
     let op = datasheet_voltage(
         r,
         &c.must_operate,
         &format!("{field}.coil.must_operate"),
+        rated,
         nominal,
     )?;
     let rel = datasheet_voltage(
         r,
         &c.must_release,
         &format!("{field}.coil.must_release"),
+        rated,
         nominal,
     )?;
     if let (Some(o), Some(l)) = (op, rel) {

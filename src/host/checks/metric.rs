@@ -11,14 +11,20 @@ use crate::host::heating;
 pub enum Metric {
     /// Peak voltage across the switch (max).
     PeakSwitch,
+    /// The healthy peak across the switch as a share of the switch's avalanche onset at the
+    /// same point (max): above 1 the switch avalanches on every healthy switch-off.
+    AvalancheShare,
     /// The output's extreme below ground, high side (min).
     PeakOutputLow,
     /// Release time (max).
     Release,
     /// Off time (max).
     OffTime,
-    /// On-current (min: the pull-in check).
+    /// On-current (min).
     OnCurrent,
+    /// On-current × the unit's own resistance at its reference temperature, V (min: the
+    /// operate check against the must-operate voltage).
+    OperateDrive,
     /// Stored energy at switch-off (max).
     Stored,
     /// Energy into the clamp diode(s) per switch-off (max).
@@ -73,12 +79,14 @@ pub enum Metric {
 
 impl Metric {
     /// Every figure but the diagnosis readings (which take a measurement and a condition).
-    pub const SCALAR: [Metric; 25] = [
+    pub const SCALAR: [Metric; 27] = [
         Metric::PeakSwitch,
+        Metric::AvalancheShare,
         Metric::PeakOutputLow,
         Metric::Release,
         Metric::OffTime,
         Metric::OnCurrent,
+        Metric::OperateDrive,
         Metric::Stored,
         Metric::EnergyDiode,
         Metric::EnergyBreakdown,
@@ -106,6 +114,7 @@ impl Metric {
         match self {
             Metric::PeakOutputLow
             | Metric::OnCurrent
+            | Metric::OperateDrive
             | Metric::SwitchSurvivable
             | Metric::OpenSurvivable
             | Metric::HoldHeldMin => Sense::Min,
@@ -120,10 +129,12 @@ impl Metric {
         let pw = || heating::powers(d, f);
         match self {
             Metric::PeakSwitch => Some(f.peak_switch),
+            Metric::AvalancheShare => f.avalanche_onset.map(|v| f.peak_switch / v),
             Metric::PeakOutputLow => Some(f.peak_output),
             Metric::Release => f.release,
             Metric::OffTime => Some(f.off_time),
             Metric::OnCurrent => Some(f.on_current),
+            Metric::OperateDrive => f.operate_drive,
             Metric::Stored => Some(f.energy.stored),
             Metric::EnergyDiode => Some(f.energy.diode),
             Metric::EnergyBreakdown => Some(f.energy.breakdown),

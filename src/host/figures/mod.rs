@@ -15,18 +15,41 @@ mod survival;
 
 pub use diag::{measure, MAX_MEASUREMENTS, TOO_HOT_SPAN_K};
 pub use hold::{HoldFigures, HoldPlan};
-pub use survival::{survivable, REPETITIVE};
+pub use survival::{reason as survival_reason, survivable, REPETITIVE};
 
 use super::board::{Board, DriverBoard};
+use super::corners::Axis;
 use super::corners::Point;
 use super::parts::{self, Circuit, Off, Path};
 use crate::clamp::Clamp;
 use crate::error::Error;
-use crate::units::Amps;
+use crate::units::{Amps, Volts};
 
 /// The share of the on-current below which the coil counts as off (re-energising or
 /// reversing is safe): 1 %.
 pub const OFF_FRACTION: f32 = 0.01;
+
+/// The current of the magnetic circuit for the datasheet voltage `v` (must-operate or
+/// must-release) of the unit at `p`: `v` over that unit's own resistance at the coil's
+/// reference temperature, R_u(T_ref) = R_nominal × the point's resistance scale.
+///
+/// Convention (per-unit guarantee): a datasheet's must-operate and must-release voltages hold
+/// for every unit at the reference temperature, so a unit needs (or releases at) `v`/R_u(T_ref)
+/// whatever its winding temperature, and the same R_u sets its on-current. The resistance
+/// tolerance therefore moves both sides together and cancels in the operate check
+/// (V_min·R_u(T_ref)/R_u(T_hot) ≥ V_op); counting it once on each side fails sound designs.
+///
+/// # Errors
+/// The library's refusal of a current outside its range (not reached inside the board's
+/// ranges).
+pub fn magnetic_current(d: &DriverBoard, v: Volts, p: &Point) -> Result<Amps, Error> {
+    Amps::new(v.value() / unit_resistance_ref(d, p))
+}
+
+/// The unit's own resistance at the coil's reference temperature at `p`, Ω.
+pub fn unit_resistance_ref(d: &DriverBoard, p: &Point) -> f32 {
+    d.coil.resistance_ref().value() * p.at(Axis::Resistance)
+}
 
 /// What stays the same at every point of a driver: the board, the sized values and the
 /// release current of the magnetic circuit.
@@ -36,10 +59,10 @@ pub struct Context<'a> {
     pub board: &'a Board,
     /// The driver (its sized zener filled in).
     pub d: &'a DriverBoard,
-    /// The release current: must-release voltage ÷ (R at the reference temperature at the top
-    /// of its tolerance), the lowest it can be (the magnetic circuit's, the same at every
-    /// winding temperature).
-    pub release_current: Option<Amps>,
+    /// The must-release voltage at the coil's reference temperature, if given: each unit's
+    /// release current is this over that unit's own resistance at the reference temperature
+    /// ([`magnetic_current`]).
+    pub release_voltage: Option<Volts>,
     /// The PWM hold as the firmware runs it, if the driver holds.
     pub hold: Option<HoldPlan>,
     /// The winding axis's range, °C (the too-hot fault lies above it).
@@ -88,13 +111,22 @@ pub struct Figures {
     pub peak_switch: f32,
     /// The output's extreme voltage to ground, V.
     pub peak_output: f32,
-    /// Switch-off to open contacts (electrical decay to the release current plus the
+    /// Switch-off to open contacts (electrical decay to this unit's release current plus the
     /// mechanical time), s; None without a must-release voltage.
     pub release: Option<f32>,
+    /// The on-current referred to the coil's reference temperature: on-current × this unit's
+    /// own resistance at the reference temperature, V (the voltage that would drive the same
+    /// current, hence the same ampere-turns, into the unit at its reference temperature), to
+    /// compare with the must-operate voltage; None without one.
+    pub operate_drive: Option<f32>,
     /// Switch-off to [`OFF_FRACTION`] of the on-current, s.
     pub off_time: f32,
     /// Energy per switch-off.
     pub energy: Energies,
+    /// The switch's avalanche onset at this point (its stated voltage × the tolerance axis at
+    /// the switch-temperature axis, at zero current), V; None where the switch is itself the
+    /// clamp (avalanche, switch clamp, H-bridge).
+    pub avalanche_onset: Option<f32>,
     /// Switch-offs the switch survives when the switch-off is its own avalanche (no clamp or a
     /// switch clamp; [`REPETITIVE`] for any number); None otherwise or without a rating.
     pub switch_survivable: Option<f32>,
@@ -140,6 +172,7 @@ impl Needs {
 /// The healthy switch-off's figures, and its diagnosis measurements from the same integration.
 fn healthy(
     cx: &Context<'_>,
+    p: &Point,
     c: &Circuit,
     needs: Needs,
     diag: &mut [Option<f32>],
@@ -147,7 +180,10 @@ fn healthy(
     let i0 = c.op.start_current.value();
     let stored = c.coil.stored_energy(c.op.start_current)?.value();
     let i_off = i0 * OFF_FRACTION;
-    let i_rel = cx.release_current.map(|a| a.value());
+    let i_rel = match cx.release_voltage {
+        Some(v) => Some(magnetic_current(cx.d, v, p)?.value()),
+        None => None,
+    };
     let mech = cx.d.mechanical.value();
     match c.switch_off()? {
         Off::Engine(off) => {
@@ -255,7 +291,7 @@ pub fn figures_at(cx: &Context<'_>, p: &Point) -> Result<Figures, Error> {
 pub fn figures_with(cx: &Context<'_>, p: &Point, needs: Needs) -> Result<Figures, Error> {
     let c = parts::circuit_at(cx.d, p)?;
     let mut healthy_diag = [None; MAX_MEASUREMENTS];
-    let h = healthy(cx, &c, needs, &mut healthy_diag)?;
+    let h = healthy(cx, p, &c, needs, &mut healthy_diag)?;
     let mut diag = [[None; 6]; MAX_MEASUREMENTS];
     if needs.diag {
         for (row, v) in diag.iter_mut().zip(healthy_diag) {
@@ -277,8 +313,23 @@ pub fn figures_with(cx: &Context<'_>, p: &Point, needs: Needs) -> Result<Figures
         Some(plan) if needs.hold => Some(hold::hold_at(cx.d, plan, p)?),
         _ => None,
     };
+    let operate_drive =
+        cx.d.operate
+            .map(|_| c.op.start_current.value() * unit_resistance_ref(cx.d, p));
+    let avalanche_onset = if parts::switch_is_clamp(cx.d) {
+        None
+    } else {
+        let t = p.temperature(Axis::AvalancheTemp)?;
+        Some(
+            parts::avalanche_at(cx.d, p)?
+                .voltage(Amps::new(0.0)?, t)?
+                .value(),
+        )
+    };
     Ok(Figures {
         on_current: c.op.start_current.value(),
+        operate_drive,
+        avalanche_onset,
         peak_switch: h.peak_switch,
         peak_output: h.peak_output,
         release: h.release,
@@ -297,9 +348,10 @@ pub fn figures_with(cx: &Context<'_>, p: &Point, needs: Needs) -> Result<Figures
 /// # Errors
 /// The library's refusals at this point.
 pub fn release_at(cx: &Context<'_>, p: &Point) -> Result<Option<f32>, Error> {
-    let Some(i_rel) = cx.release_current else {
+    let Some(v_rel) = cx.release_voltage else {
         return Ok(None);
     };
+    let i_rel = magnetic_current(cx.d, v_rel, p)?;
     let c = parts::circuit_at(cx.d, p)?;
     let mech = cx.d.mechanical.value();
     if !(i_rel < c.op.start_current) {

@@ -6,6 +6,7 @@
 //! with its unit ([`quantity`]); unknown fields are errors; a wrong type is reported at the field
 //! that holds it (`driver[0].count: invalid type…`).
 
+pub mod fields;
 pub mod locate;
 pub mod quantity;
 
@@ -119,8 +120,11 @@ pub struct CoilSpec {
     /// Temperature of the stated resistance (copper, IEC 60028), or "none" for a resistance
     /// that does not change with temperature.
     pub resistance_at: Q,
-    /// Must-operate voltage at `resistance_at`: a share of the nominal supply ("60 %") or a
-    /// voltage ("14.4 V"); optional.
+    /// The coil's rated voltage (the datasheet's nominal coil voltage, "12 V"); needed when
+    /// `must_operate` or `must_release` is a percentage, which is of this voltage.
+    pub rated_voltage: Option<Q>,
+    /// Must-operate voltage at `resistance_at`: a share of `rated_voltage` ("60 %") or a
+    /// voltage ("7.2 V"); optional.
     pub must_operate: Option<Q>,
     /// Must-release voltage, the same way; optional.
     pub must_release: Option<Q>,
@@ -172,6 +176,8 @@ pub struct ClampSpec {
     pub diode_thermal_resistance: Option<Q>,
     /// The breakdown part's voltage at its test current ("auto" sizes a zener).
     pub voltage: Option<Q>,
+    /// With `voltage = "auto"`: the margin kept below the switch's derated rating.
+    pub voltage_margin: Option<Q>,
     /// Its part-to-part tolerance (± %); optional.
     pub tolerance: Option<Q>,
     /// Its test current.
@@ -197,6 +203,36 @@ pub struct ClampSpec {
     pub resistor: Option<Q>,
     /// Snubber capacitor (rc-snubber).
     pub capacitor: Option<Q>,
+}
+
+impl ClampSpec {
+    /// Every field but `kind`, by name, with whether the file gives it (the per-kind rule in
+    /// [`fields`] reads this; `tests/field_reference.rs` holds the names to the schema).
+    pub fn present(&self) -> [(&'static str, Option<std::ops::Range<usize>>); 17] {
+        let q = |x: &Option<Q>| x.as_ref().map(|v| v.span());
+        [
+            ("diode", q(&self.diode)),
+            ("diode_spread", q(&self.diode_spread)),
+            (
+                "diode_thermal_resistance",
+                q(&self.diode_thermal_resistance),
+            ),
+            ("voltage", q(&self.voltage)),
+            ("voltage_margin", q(&self.voltage_margin)),
+            ("tolerance", q(&self.tolerance)),
+            ("test_current", q(&self.test_current)),
+            ("dynamic_resistance", q(&self.dynamic_resistance)),
+            ("tempco", q(&self.tempco)),
+            ("power_rating", q(&self.power_rating)),
+            ("energy_rating", q(&self.energy_rating)),
+            ("thermal_resistance", q(&self.thermal_resistance)),
+            ("exponent", q(&self.exponent)),
+            ("transconductance", q(&self.transconductance)),
+            ("gate_threshold", q(&self.gate_threshold)),
+            ("resistor", q(&self.resistor)),
+            ("capacitor", q(&self.capacitor)),
+        ]
+    }
 }
 
 /// PWM peak-and-hold.
@@ -238,6 +274,8 @@ pub struct DiagnosisSpec {
     pub shorted_resistance: Option<Q>,
     /// How many fault readings in a row the firmware waits for.
     pub confirmations: Option<Spanned<u32>>,
+    /// The comparator's reference voltage, for the proposed comparator's divider ratio.
+    pub comparator_reference: Option<Q>,
 }
 
 /// The microcontroller pins.
@@ -291,6 +329,10 @@ pub struct Input {
     pub transient_width: Option<Q>,
     /// Series resistor, or "auto".
     pub series_resistor: Q,
+    /// Whether the signal can be present while the pins' supply is off (default true: a
+    /// sensor powered from elsewhere); false for a signal that exists only while the
+    /// controller's own supply is up, which the rail-off checks then leave out.
+    pub present_when_unpowered: Option<Spanned<bool>>,
 }
 
 /// True when the quantity is written "auto".
