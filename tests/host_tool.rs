@@ -439,7 +439,19 @@ fn build_rs_call_fails_an_unsafe_design_with_the_reason() {
         err.contains("unsafe") && err.contains("peak voltage across the switch"),
         "{err}"
     );
-    assert!(!dir.join("out").exists());
+    // The outputs are written, and the constants stop any build that includes them.
+    let rs = std::fs::read_to_string(dir.join("out/kickguard_config.rs")).unwrap();
+    assert!(
+        rs.contains("compile_error!")
+            && rs.contains("valve.switch_voltage")
+            && !rs.contains("pub const"),
+        "{rs}"
+    );
+    let h = std::fs::read_to_string(dir.join("out/kickguard_config.h")).unwrap();
+    assert!(
+        h.contains("#error") && !h.contains("#define KICKGUARD_VALVE"),
+        "{h}"
+    );
     let ok = kickguard::host::configure(DEMO, dir.join("ok")).unwrap();
     assert!(!ok.failed() && dir.join("ok/kickguard_config.rs").exists());
 }

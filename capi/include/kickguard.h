@@ -8,112 +8,316 @@
 #include <stddef.h>
 #include <stdint.h>
 
-// A null pointer where a value was required.
+/**
+ * A null pointer where a value was required.
+ */
 #define KG_NULL_POINTER 100
 
-// A length of zero, or above the stated maximum.
+/**
+ * A length of zero, or above the stated maximum.
+ */
 #define KG_BAD_LENGTH 101
 
-// A verdict or condition code this interface does not know.
+/**
+ * A verdict or condition code this interface does not know.
+ */
 #define KG_BAD_CODE 102
 
-// Most verdicts a [`kg_history`] keeps.
+/**
+ * Most verdicts a kg_history keeps.
+ */
 #define KG_HISTORY_LEN 16
 
-// Most samples [`kg_fit_decay`] takes.
+/**
+ * Most samples kg_fit_decay takes.
+ */
 #define KG_FIT_MAX_SAMPLES 256
 
-// Most window rows [`kg_classify`] reads (the library's window count).
+/**
+ * Most window rows kg_classify reads (the library's window count).
+ */
 #define KG_MAX_WINDOWS 6
 
-// The outcome of a call: `code` 0 on success; otherwise the reason and the input at fault.
+/**
+ * Verdict kind: healthy (kg_verdict.kind).
+ */
+#define KG_VERDICT_HEALTHY 0
+
+/**
+ * Verdict kind: one fault, named by kg_verdict.condition.
+ */
+#define KG_VERDICT_FAULT 1
+
+/**
+ * Verdict kind: ambiguous, the candidate faults in kg_verdict.candidates (bit 1 << condition).
+ */
+#define KG_VERDICT_AMBIGUOUS 2
+
+/**
+ * Verdict kind: inside no window.
+ */
+#define KG_VERDICT_UNEXPLAINED 3
+
+/**
+ * Condition code: healthy (window rows and verdicts).
+ */
+#define KG_CONDITION_HEALTHY 0
+
+/**
+ * Condition code: the clamp path (freewheeling diode, zener or TVS path) open.
+ */
+#define KG_CONDITION_CLAMP_OPEN 1
+
+/**
+ * Condition code: the clamp's zener shorted.
+ */
+#define KG_CONDITION_ZENER_SHORTED 2
+
+/**
+ * Condition code: the coil open.
+ */
+#define KG_CONDITION_COIL_OPEN 3
+
+/**
+ * Condition code: shorted turns in the coil.
+ */
+#define KG_CONDITION_SHORTED_TURNS 4
+
+/**
+ * Condition code: the coil hotter than its design range.
+ */
+#define KG_CONDITION_COIL_TOO_HOT 5
+
+/**
+ * Status code: a value is NaN or infinite.
+ */
+#define KG_REASON_NOT_FINITE 1
+
+/**
+ * Status code: a value is zero or negative where it must be positive.
+ */
+#define KG_REASON_NOT_POSITIVE 2
+
+/**
+ * Status code: a value is negative.
+ */
+#define KG_REASON_NEGATIVE 3
+
+/**
+ * Status code: a value (or a result) is too large.
+ */
+#define KG_REASON_TOO_LARGE 4
+
+/**
+ * Status code: a value (or a result) is too small.
+ */
+#define KG_REASON_TOO_SMALL 5
+
+/**
+ * Status code: a temperature below absolute zero.
+ */
+#define KG_REASON_BELOW_ABSOLUTE_ZERO 6
+
+/**
+ * Status code: outside the range the model is validated for.
+ */
+#define KG_REASON_OUTSIDE_VALIDATED_RANGE 7
+
+/**
+ * Status code: values that must increase do not.
+ */
+#define KG_REASON_NOT_INCREASING 8
+
+/**
+ * Status code: values that must decrease do not.
+ */
+#define KG_REASON_NOT_DECREASING 9
+
+/**
+ * Status code: too few values.
+ */
+#define KG_REASON_TOO_FEW 10
+
+/**
+ * Status code: values that contradict each other.
+ */
+#define KG_REASON_INCONSISTENT 11
+
+/**
+ * Status code: the clamp cannot clamp (its voltage does not exceed what it must).
+ */
+#define KG_REASON_CANNOT_CLAMP 12
+
+/**
+ * Status code: a target the model cannot reach.
+ */
+#define KG_REASON_UNREACHABLE 13
+
+/**
+ * Status code: an arithmetic overflow of the quantities' range.
+ */
+#define KG_REASON_OVERFLOW 14
+
+/**
+ * The outcome of a call: `code` 0 on success; otherwise the reason and the input at fault.
+ */
 typedef struct {
-  // 0 success; 1…14 the library's reason codes; 100…102 this layer's own.
+  /**
+   * 0 success; 1…14 the library's reason codes; 100…102 this layer's own.
+   */
   int32_t code;
-  // The input at fault, `input_len` bytes (static, not NUL-terminated); null on success.
+  /**
+   * The input at fault, `input_len` bytes (static, not NUL-terminated); null on success.
+   */
   const uint8_t *input;
-  // Length of `input` in bytes.
+  /**
+   * Length of `input` in bytes.
+   */
   size_t input_len;
 } kg_status;
 
-// SPICE-class diode parameters, plain data: IS (A), N, RS (Ω), EG (eV), XTI, TNOM (°C).
+/**
+ * SPICE-class diode parameters, plain data: IS (A), N, RS (Ω), EG (eV), XTI, TNOM (°C).
+ */
 typedef struct {
-  // Saturation current IS, A.
+  /**
+   * Saturation current IS, A.
+   */
   float is_a;
-  // Emission coefficient N.
+  /**
+   * Emission coefficient N.
+   */
   float n;
-  // Series resistance RS, Ω.
+  /**
+   * Series resistance RS, Ω.
+   */
   float rs_ohm;
-  // Band gap EG, eV.
+  /**
+   * Band gap EG, eV.
+   */
   float eg_ev;
-  // Saturation-current temperature exponent XTI.
+  /**
+   * Saturation-current temperature exponent XTI.
+   */
   float xti;
-  // Nominal temperature TNOM, °C.
+  /**
+   * Nominal temperature TNOM, °C.
+   */
   float tnom_c;
 } kg_diode;
 
-// A coil: L (H), R (Ω) at `t_ref_c` (°C) with coefficient `alpha_per_k` (1/K; 0.00393 for
-// copper near 20 °C, IEC 60028). `has_tempco` = 0 takes R as fixed (no reference needed).
+/**
+ * A coil: L (H), R (Ω) at `t_ref_c` (°C) with coefficient `alpha_per_k` (1/K; 0.00393 for
+ * copper near 20 °C, IEC 60028). `has_tempco` = 0 takes R as fixed (no reference needed).
+ */
 typedef struct {
-  // Inductance, H.
+  /**
+   * Inductance, H.
+   */
   float l_h;
-  // Resistance at the reference temperature, Ω.
+  /**
+   * Resistance at the reference temperature, Ω.
+   */
   float r_ohm;
-  // Reference temperature, °C (ignored without a tempco).
+  /**
+   * Reference temperature, °C (ignored without a tempco).
+   */
   float t_ref_c;
-  // Temperature coefficient of R at the reference, 1/K.
+  /**
+   * Temperature coefficient of R at the reference, 1/K.
+   */
   float alpha_per_k;
-  // 0: fixed R; otherwise R(T) = R·(1 + α·(T − T_ref)).
+  /**
+   * 0: fixed R; otherwise R(T) = R·(1 + α·(T − T_ref)).
+   */
   uint8_t has_tempco;
 } kg_coil;
 
-// A closed-form decay through a constant clamp voltage, to an end current.
+/**
+ * A closed-form decay through a constant clamp voltage, to an end current.
+ */
 typedef struct {
-  // Time to the end current, s.
+  /**
+   * Time to the end current, s.
+   */
   float time_s;
-  // Charge through the clamp, C.
+  /**
+   * Charge through the clamp, C.
+   */
   float charge_c;
-  // Energy into the clamp, J.
+  /**
+   * Energy into the clamp, J.
+   */
   float clamp_j;
-  // Energy into the coil's resistance, J.
+  /**
+   * Energy into the coil's resistance, J.
+   */
   float resistive_j;
 } kg_clamp_decay;
 
-// One row of a generated window table: lowest tick, highest tick, condition code (0 healthy,
-// 1 clamp path open, 2 zener shorted, 3 coil open, 4 shorted turns, 5 coil too hot).
+/**
+ * One row of a generated window table: lowest tick, highest tick, condition code (0 healthy,
+ * 1 clamp path open, 2 zener shorted, 3 coil open, 4 shorted turns, 5 coil too hot).
+ */
 typedef struct {
-  // Lowest tick.
+  /**
+   * Lowest tick.
+   */
   uint32_t lo;
-  // Highest tick.
+  /**
+   * Highest tick.
+   */
   uint32_t hi;
-  // Condition code.
+  /**
+   * Condition code.
+   */
   uint32_t code;
 } kg_window_row;
 
-// A verdict: `kind` 0 healthy, 1 one fault (`condition`), 2 ambiguous (`candidates`, a bit
-// set of condition codes), 3 unexplained.
+/**
+ * A verdict: `kind` 0 healthy, 1 one fault (`condition`), 2 ambiguous (`candidates`, a bit
+ * set of condition codes), 3 unexplained.
+ */
 typedef struct {
-  // 0 healthy, 1 fault, 2 ambiguous, 3 unexplained.
+  /**
+   * 0 healthy, 1 fault, 2 ambiguous, 3 unexplained.
+   */
   uint8_t kind;
-  // The fault's condition code (kind 1).
+  /**
+   * The fault's condition code (kind 1).
+   */
   uint8_t condition;
-  // Bit k set: condition code k is a candidate (kind 2).
+  /**
+   * Bit k set: condition code k is a candidate (kind 2).
+   */
   uint8_t candidates;
 } kg_verdict;
 
-// The last [`KG_HISTORY_LEN`] verdicts, oldest first; zero-initialise it (`len` 0) to start.
+/**
+ * The last KG_HISTORY_LEN verdicts, oldest first; zero-initialise it (`len` 0) to start.
+ */
 typedef struct {
-  // The verdicts, oldest first.
+  /**
+   * The verdicts, oldest first.
+   */
   kg_verdict verdicts[KG_HISTORY_LEN];
-  // How many are held (0 … KG_HISTORY_LEN).
+  /**
+   * How many are held (0 … KG_HISTORY_LEN).
+   */
   uint8_t len;
 } kg_history;
 
-// A decay fit: τ (s) and V_c/R_loop (A).
+/**
+ * A decay fit: τ (s) and V_c/R_loop (A).
+ */
 typedef struct {
-  // Time constant, s.
+  /**
+   * Time constant, s.
+   */
   float tau_s;
-  // Clamp voltage over the loop resistance, A.
+  /**
+   * Clamp voltage over the loop resistance, A.
+   */
   float clamp_over_r_a;
 } kg_fit;
 
@@ -121,50 +325,64 @@ typedef struct {
 extern "C" {
 #endif // __cplusplus
 
-// Writes the library's generic silicon (`schottky` = 0) or Schottky (≠ 0) preset.
-//
-// # Safety
-// `out` is null or valid for writes.
+/**
+ * Writes the library's generic silicon (`schottky` = 0) or Schottky (≠ 0) preset.
+ *
+ * Safety:
+ * `out` is null or valid for writes.
+ */
 kg_status kg_diode_preset(uint8_t schottky, kg_diode *out);
 
-// Forward drop at `i_a` (A) and junction temperature `t_c` (°C), V (Shockley equation with RS,
-// SPICE2 temperature law; see `DiodeParams::forward_drop`).
-//
-// # Safety
-// `d` is null or valid for reads; `out_v` null or valid for writes.
+/**
+ * Forward drop at `i_a` (A) and junction temperature `t_c` (°C), V (Shockley equation with RS,
+ * SPICE2 temperature law; see `DiodeParams::forward_drop`).
+ *
+ * Safety:
+ * `d` is null or valid for reads; `out_v` null or valid for writes.
+ */
 kg_status kg_diode_forward_drop(const kg_diode *d, float i_a, float t_c, float *out_v);
 
-// Junction temperature (°C) from a drop `v` (V) measured at a small current `i_a` (A): the
-// diode as a thermometer (see `DiodeParams::junction_temperature`).
-//
-// # Safety
-// `d` is null or valid for reads; `out_c` null or valid for writes.
+/**
+ * Junction temperature (°C) from a drop `v` (V) measured at a small current `i_a` (A): the
+ * diode as a thermometer (see `DiodeParams::junction_temperature`).
+ *
+ * Safety:
+ * `d` is null or valid for reads; `out_c` null or valid for writes.
+ */
 kg_status kg_diode_junction_temperature(const kg_diode *d, float i_a, float v, float *out_c);
 
-// Coil resistance at `t_c` (°C), Ω.
-//
-// # Safety
-// `c` is null or valid for reads; `out_ohm` null or valid for writes.
+/**
+ * Coil resistance at `t_c` (°C), Ω.
+ *
+ * Safety:
+ * `c` is null or valid for reads; `out_ohm` null or valid for writes.
+ */
 kg_status kg_coil_resistance(const kg_coil *c, float t_c, float *out_ohm);
 
-// Winding temperature (°C) from a measured resistance `r_ohm` (Ω).
-//
-// # Safety
-// `c` is null or valid for reads; `out_c` null or valid for writes.
+/**
+ * Winding temperature (°C) from a measured resistance `r_ohm` (Ω).
+ *
+ * Safety:
+ * `c` is null or valid for reads; `out_c` null or valid for writes.
+ */
 kg_status kg_coil_winding_temperature(const kg_coil *c, float r_ohm, float *out_c);
 
-// Steady on-current (A) at supply `v` (V) and winding temperature `t_c` (°C): V/R(T).
-//
-// # Safety
-// `c` is null or valid for reads; `out_a` null or valid for writes.
+/**
+ * Steady on-current (A) at supply `v` (V) and winding temperature `t_c` (°C): V/R(T).
+ *
+ * Safety:
+ * `c` is null or valid for reads; `out_a` null or valid for writes.
+ */
 kg_status kg_coil_steady_current(const kg_coil *c, float v, float t_c, float *out_a);
 
-// The decay of a coil (L `l_h` H, R `r_ohm` Ω) from `i0_a` to `i_end_a` (A) through a constant
-// clamp voltage `vc_v` (V across the coil): i(t) = (I₀ + V/R)·e^(−t/τ) − V/R, τ = L/R (see
-// `ConstantClamp`).
-//
-// # Safety
-// `out` is null or valid for writes.
+/**
+ * The decay of a coil (L `l_h` H, R `r_ohm` Ω) from `i0_a` to `i_end_a` (A) through a constant
+ * clamp voltage `vc_v` (V across the coil): i(t) = (I₀ + V/R)·e^(−t/τ) − V/R, τ = L/R (see
+ * `ConstantClamp`).
+ *
+ * Safety:
+ * `out` is null or valid for writes.
+ */
 kg_status kg_clamp_decay_to(float l_h,
                             float r_ohm,
                             float vc_v,
@@ -172,31 +390,39 @@ kg_status kg_clamp_decay_to(float l_h,
                             float i_end_a,
                             kg_clamp_decay *out);
 
-// The verdict on a measured tick count against a generated window table (`n` rows, 1 …
-// [`KG_MAX_WINDOWS`]; rows with an unknown code are ignored, as in `Windows::from_rows`).
-// Integer only.
-//
-// # Safety
-// `rows` is null or valid for reads of `n` rows; `out` null or valid for writes.
+/**
+ * The verdict on a measured tick count against a generated window table (`n` rows, 1 …
+ * KG_MAX_WINDOWS; rows with an unknown code are ignored, as in `Windows::from_rows`).
+ * Integer only.
+ *
+ * Safety:
+ * `rows` is null or valid for reads of `n` rows; `out` null or valid for writes.
+ */
 kg_status kg_classify(const kg_window_row *rows, size_t n, uint32_t ticks, kg_verdict *out);
 
-// Appends a verdict (the oldest drops out when full).
-//
-// # Safety
-// `h` is null or valid for reads and writes; `v` null or valid for reads.
+/**
+ * Appends a verdict (the oldest drops out when full).
+ *
+ * Safety:
+ * `h` is null or valid for reads and writes; `v` null or valid for reads.
+ */
 kg_status kg_history_push(kg_history *h, const kg_verdict *v);
 
-// How many of the newest verdicts in a row equal `v` (the library's `consecutive`).
-//
-// # Safety
-// `h` and `v` are null or valid for reads; `out` null or valid for writes.
+/**
+ * How many of the newest verdicts in a row equal `v` (the library's `consecutive`).
+ *
+ * Safety:
+ * `h` and `v` are null or valid for reads; `out` null or valid for writes.
+ */
 kg_status kg_history_consecutive(const kg_history *h, const kg_verdict *v, uint32_t *out);
 
-// Least-squares fit of τ and V_c/R to `n` current samples (A, 3 … [`KG_FIT_MAX_SAMPLES`])
-// taken every `interval_s` seconds (see `fit_decay`).
-//
-// # Safety
-// `samples_a` is null or valid for reads of `n` floats; `out` null or valid for writes.
+/**
+ * Least-squares fit of τ and V_c/R to `n` current samples (A, 3 … KG_FIT_MAX_SAMPLES)
+ * taken every `interval_s` seconds (see `fit_decay`).
+ *
+ * Safety:
+ * `samples_a` is null or valid for reads of `n` floats; `out` null or valid for writes.
+ */
 kg_status kg_fit_decay(const float *samples_a, size_t n, float interval_s, kg_fit *out);
 
 #ifdef __cplusplus

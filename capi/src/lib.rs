@@ -20,6 +20,9 @@
 #![cfg_attr(target_os = "none", no_std)]
 #![deny(unsafe_op_in_unsafe_fn, missing_docs)]
 #![allow(non_camel_case_types)]
+// The doc comments of exported items become the C header's comments, so they are plain prose
+// (a "Safety:" paragraph rather than a Markdown heading); each unsafe function has one.
+#![allow(clippy::missing_safety_doc)]
 
 use kickguard::clamp::closed_form::ConstantClamp;
 use kickguard::coil::Coil;
@@ -36,14 +39,87 @@ pub const KG_NULL_POINTER: i32 = 100;
 pub const KG_BAD_LENGTH: i32 = 101;
 /// A verdict or condition code this interface does not know.
 pub const KG_BAD_CODE: i32 = 102;
-/// Most verdicts a [`kg_history`] keeps.
+/// Most verdicts a kg_history keeps.
 pub const KG_HISTORY_LEN: usize = 16;
-/// Most samples [`kg_fit_decay`] takes.
+/// Most samples kg_fit_decay takes.
 pub const KG_FIT_MAX_SAMPLES: usize = 256;
-/// Most window rows [`kg_classify`] reads (the library's window count).
+/// Most window rows kg_classify reads (the library's window count).
 pub const KG_MAX_WINDOWS: usize = 6;
 // The header needs a literal; this fails to compile if the library's count changes.
 const _: () = assert!(KG_MAX_WINDOWS == kickguard::diagnosis::classify::MAX_WINDOWS);
+
+/// Verdict kind: healthy (kg_verdict.kind).
+pub const KG_VERDICT_HEALTHY: u8 = 0;
+/// Verdict kind: one fault, named by kg_verdict.condition.
+pub const KG_VERDICT_FAULT: u8 = 1;
+/// Verdict kind: ambiguous, the candidate faults in kg_verdict.candidates (bit 1 << condition).
+pub const KG_VERDICT_AMBIGUOUS: u8 = 2;
+/// Verdict kind: inside no window.
+pub const KG_VERDICT_UNEXPLAINED: u8 = 3;
+/// Condition code: healthy (window rows and verdicts).
+pub const KG_CONDITION_HEALTHY: u8 = 0;
+/// Condition code: the clamp path (freewheeling diode, zener or TVS path) open.
+pub const KG_CONDITION_CLAMP_OPEN: u8 = 1;
+/// Condition code: the clamp's zener shorted.
+pub const KG_CONDITION_ZENER_SHORTED: u8 = 2;
+/// Condition code: the coil open.
+pub const KG_CONDITION_COIL_OPEN: u8 = 3;
+/// Condition code: shorted turns in the coil.
+pub const KG_CONDITION_SHORTED_TURNS: u8 = 4;
+/// Condition code: the coil hotter than its design range.
+pub const KG_CONDITION_COIL_TOO_HOT: u8 = 5;
+/// Status code: a value is NaN or infinite.
+pub const KG_REASON_NOT_FINITE: i32 = 1;
+/// Status code: a value is zero or negative where it must be positive.
+pub const KG_REASON_NOT_POSITIVE: i32 = 2;
+/// Status code: a value is negative.
+pub const KG_REASON_NEGATIVE: i32 = 3;
+/// Status code: a value (or a result) is too large.
+pub const KG_REASON_TOO_LARGE: i32 = 4;
+/// Status code: a value (or a result) is too small.
+pub const KG_REASON_TOO_SMALL: i32 = 5;
+/// Status code: a temperature below absolute zero.
+pub const KG_REASON_BELOW_ABSOLUTE_ZERO: i32 = 6;
+/// Status code: outside the range the model is validated for.
+pub const KG_REASON_OUTSIDE_VALIDATED_RANGE: i32 = 7;
+/// Status code: values that must increase do not.
+pub const KG_REASON_NOT_INCREASING: i32 = 8;
+/// Status code: values that must decrease do not.
+pub const KG_REASON_NOT_DECREASING: i32 = 9;
+/// Status code: too few values.
+pub const KG_REASON_TOO_FEW: i32 = 10;
+/// Status code: values that contradict each other.
+pub const KG_REASON_INCONSISTENT: i32 = 11;
+/// Status code: the clamp cannot clamp (its voltage does not exceed what it must).
+pub const KG_REASON_CANNOT_CLAMP: i32 = 12;
+/// Status code: a target the model cannot reach.
+pub const KG_REASON_UNREACHABLE: i32 = 13;
+/// Status code: an arithmetic overflow of the quantities' range.
+pub const KG_REASON_OVERFLOW: i32 = 14;
+// The header needs literals; these fail to compile if the library's codes change.
+const _: () = {
+    use kickguard::Reason as R;
+    assert!(KG_CONDITION_HEALTHY as u32 == Condition::Healthy.code());
+    assert!(KG_CONDITION_CLAMP_OPEN as u32 == Condition::FreewheelOpen.code());
+    assert!(KG_CONDITION_ZENER_SHORTED as u32 == Condition::ZenerShorted.code());
+    assert!(KG_CONDITION_COIL_OPEN as u32 == Condition::CoilOpen.code());
+    assert!(KG_CONDITION_SHORTED_TURNS as u32 == Condition::ShortedTurns.code());
+    assert!(KG_CONDITION_COIL_TOO_HOT as u32 == Condition::CoilTooHot.code());
+    assert!(KG_REASON_NOT_FINITE as u8 == R::NotFinite.code());
+    assert!(KG_REASON_NOT_POSITIVE as u8 == R::NotPositive.code());
+    assert!(KG_REASON_NEGATIVE as u8 == R::Negative.code());
+    assert!(KG_REASON_TOO_LARGE as u8 == R::TooLarge.code());
+    assert!(KG_REASON_TOO_SMALL as u8 == R::TooSmall.code());
+    assert!(KG_REASON_BELOW_ABSOLUTE_ZERO as u8 == R::BelowAbsoluteZero.code());
+    assert!(KG_REASON_OUTSIDE_VALIDATED_RANGE as u8 == R::OutsideValidatedRange.code());
+    assert!(KG_REASON_NOT_INCREASING as u8 == R::NotIncreasing.code());
+    assert!(KG_REASON_NOT_DECREASING as u8 == R::NotDecreasing.code());
+    assert!(KG_REASON_TOO_FEW as u8 == R::TooFew.code());
+    assert!(KG_REASON_INCONSISTENT as u8 == R::Inconsistent.code());
+    assert!(KG_REASON_CANNOT_CLAMP as u8 == R::CannotClamp.code());
+    assert!(KG_REASON_UNREACHABLE as u8 == R::Unreachable.code());
+    assert!(KG_REASON_OVERFLOW as u8 == R::Overflow.code());
+};
 
 /// The outcome of a call: `code` 0 on success; otherwise the reason and the input at fault.
 #[repr(C)]
@@ -92,7 +168,7 @@ fn finish<T>(out: Option<&mut T>, f: impl FnOnce() -> Result<T, Error>) -> kg_st
     }
 }
 
-/// # Safety
+/// Safety:
 /// `p` is null or valid for writes of a `T` and not aliased during the call.
 unsafe fn out_ref<'a, T>(p: *mut T) -> Option<&'a mut T> {
     // SAFETY: `as_mut` maps null to None; otherwise the caller guarantees a valid, unaliased,
@@ -100,7 +176,7 @@ unsafe fn out_ref<'a, T>(p: *mut T) -> Option<&'a mut T> {
     unsafe { p.as_mut() }
 }
 
-/// # Safety
+/// Safety:
 /// `p` is null or valid for reads of a `T`.
 unsafe fn in_ref<'a, T>(p: *const T) -> Option<&'a T> {
     // SAFETY: `as_ref` maps null to None; otherwise the caller guarantees a valid, aligned
@@ -108,7 +184,7 @@ unsafe fn in_ref<'a, T>(p: *const T) -> Option<&'a T> {
     unsafe { p.as_ref() }
 }
 
-/// # Safety
+/// Safety:
 /// `p` is null or valid for reads of `n` consecutive `T`s.
 unsafe fn in_slice<'a, T>(
     p: *const T,
@@ -127,7 +203,7 @@ unsafe fn in_slice<'a, T>(
     Ok(unsafe { core::slice::from_raw_parts(p, n) })
 }
 
-/// # Safety
+/// Safety:
 /// `p` is null or valid for reads and writes of a `T`, not aliased during the call.
 unsafe fn inout_ref<'a, T>(p: *mut T) -> Option<&'a mut T> {
     // SAFETY: as for `out_ref`.
@@ -176,7 +252,7 @@ fn diode_to(p: &DiodeParams) -> kg_diode {
 
 /// Writes the library's generic silicon (`schottky` = 0) or Schottky (≠ 0) preset.
 ///
-/// # Safety
+/// Safety:
 /// `out` is null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_diode_preset(schottky: u8, out: *mut kg_diode) -> kg_status {
@@ -192,7 +268,7 @@ pub unsafe extern "C" fn kg_diode_preset(schottky: u8, out: *mut kg_diode) -> kg
 /// Forward drop at `i_a` (A) and junction temperature `t_c` (°C), V (Shockley equation with RS,
 /// SPICE2 temperature law; see `DiodeParams::forward_drop`).
 ///
-/// # Safety
+/// Safety:
 /// `d` is null or valid for reads; `out_v` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_diode_forward_drop(
@@ -218,7 +294,7 @@ pub unsafe extern "C" fn kg_diode_forward_drop(
 /// Junction temperature (°C) from a drop `v` (V) measured at a small current `i_a` (A): the
 /// diode as a thermometer (see `DiodeParams::junction_temperature`).
 ///
-/// # Safety
+/// Safety:
 /// `d` is null or valid for reads; `out_c` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_diode_junction_temperature(
@@ -272,7 +348,7 @@ fn coil_of(c: &kg_coil) -> Result<Coil, Error> {
 
 /// Coil resistance at `t_c` (°C), Ω.
 ///
-/// # Safety
+/// Safety:
 /// `c` is null or valid for reads; `out_ohm` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_coil_resistance(
@@ -294,7 +370,7 @@ pub unsafe extern "C" fn kg_coil_resistance(
 
 /// Winding temperature (°C) from a measured resistance `r_ohm` (Ω).
 ///
-/// # Safety
+/// Safety:
 /// `c` is null or valid for reads; `out_c` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_coil_winding_temperature(
@@ -316,7 +392,7 @@ pub unsafe extern "C" fn kg_coil_winding_temperature(
 
 /// Steady on-current (A) at supply `v` (V) and winding temperature `t_c` (°C): V/R(T).
 ///
-/// # Safety
+/// Safety:
 /// `c` is null or valid for reads; `out_a` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_coil_steady_current(
@@ -355,7 +431,7 @@ pub struct kg_clamp_decay {
 /// clamp voltage `vc_v` (V across the coil): i(t) = (I₀ + V/R)·e^(−t/τ) − V/R, τ = L/R (see
 /// `ConstantClamp`).
 ///
-/// # Safety
+/// Safety:
 /// `out` is null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_clamp_decay_to(
@@ -442,10 +518,10 @@ fn verdict_of(v: &kg_verdict) -> Option<Verdict> {
 }
 
 /// The verdict on a measured tick count against a generated window table (`n` rows, 1 …
-/// [`KG_MAX_WINDOWS`]; rows with an unknown code are ignored, as in `Windows::from_rows`).
+/// KG_MAX_WINDOWS; rows with an unknown code are ignored, as in `Windows::from_rows`).
 /// Integer only.
 ///
-/// # Safety
+/// Safety:
 /// `rows` is null or valid for reads of `n` rows; `out` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_classify(
@@ -470,7 +546,7 @@ pub unsafe extern "C" fn kg_classify(
     })
 }
 
-/// The last [`KG_HISTORY_LEN`] verdicts, oldest first; zero-initialise it (`len` 0) to start.
+/// The last KG_HISTORY_LEN verdicts, oldest first; zero-initialise it (`len` 0) to start.
 #[repr(C)]
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct kg_history {
@@ -491,7 +567,7 @@ fn history_of(h: &kg_history) -> Option<VerdictHistory<KG_HISTORY_LEN>> {
 
 /// Appends a verdict (the oldest drops out when full).
 ///
-/// # Safety
+/// Safety:
 /// `h` is null or valid for reads and writes; `v` null or valid for reads.
 #[no_mangle]
 pub unsafe extern "C" fn kg_history_push(h: *mut kg_history, v: *const kg_verdict) -> kg_status {
@@ -517,7 +593,7 @@ pub unsafe extern "C" fn kg_history_push(h: *mut kg_history, v: *const kg_verdic
 
 /// How many of the newest verdicts in a row equal `v` (the library's `consecutive`).
 ///
-/// # Safety
+/// Safety:
 /// `h` and `v` are null or valid for reads; `out` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_history_consecutive(
@@ -546,10 +622,10 @@ pub struct kg_fit {
     pub clamp_over_r_a: f32,
 }
 
-/// Least-squares fit of τ and V_c/R to `n` current samples (A, 3 … [`KG_FIT_MAX_SAMPLES`])
+/// Least-squares fit of τ and V_c/R to `n` current samples (A, 3 … KG_FIT_MAX_SAMPLES)
 /// taken every `interval_s` seconds (see `fit_decay`).
 ///
-/// # Safety
+/// Safety:
 /// `samples_a` is null or valid for reads of `n` floats; `out` null or valid for writes.
 #[no_mangle]
 pub unsafe extern "C" fn kg_fit_decay(

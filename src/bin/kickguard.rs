@@ -1,16 +1,18 @@
 //! `kickguard`: the firmware configuration step from the command line.
 //!
-//! Exit status: 0 every check passed; 1 a check failed (the design is unsafe as described);
-//! 2 bad input (the file cannot be read or parsed, a value is refused, or the command line is
-//! wrong), and nothing is written.
+//! Exit status: 0 no check failed (a WARN is advice or a check that could not be judged, never
+//! a limit exceeded); 1 a check failed (the design is unsafe or does not work as described: the
+//! constants written then stop a firmware build with the reason); 2 bad input (the file cannot
+//! be read or parsed, a value is refused, or the command line is wrong): nothing is written,
+//! and the files an earlier run wrote into the output directory are removed.
 
 use clap::{Parser, Subcommand};
-use kickguard::host::{analyse_file, output, write_outputs, MonteCarlo, Options};
+use kickguard::host::{analyse_file, clear_outputs, output, write_outputs, MonteCarlo, Options};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
 /// Text after the options, the same for `-h` and `--help`.
-const AFTER: &str = "The annotated example design is examples/greenhouse.toml in the kickguard repository: every field, its unit and its meaning.\n\nResults are engineering estimates from simplified models: verify on the real hardware; local codes and licensed practice prevail.\n\nExit status: 0 every check passed, 1 a check failed, 2 bad input (nothing written).";
+const AFTER: &str = "The annotated example design is examples/greenhouse.toml in the kickguard repository: every field, its unit and its meaning.\n\nResults are engineering estimates from simplified models: verify on the real hardware; local codes and licensed practice prevail.\n\nExit status: 0 no check failed (WARN lines are advice or checks that could not be judged, never a limit exceeded), 1 a check failed (the constants written stop a firmware build with the reason), 2 bad input (nothing written; the files an earlier run wrote into --out are removed).";
 
 /// Suppression, timing, input-protection and diagnosis checks for coil drivers, from a design file.
 #[derive(Parser)]
@@ -48,6 +50,21 @@ fn bad(e: impl std::fmt::Display) -> ExitCode {
     ExitCode::from(2)
 }
 
+/// Bad input: prints the error, removes what an earlier run wrote into `out` (so no stale
+/// constants survive a broken design), and returns exit status 2.
+fn bad_input(e: impl std::fmt::Display, out: &std::path::Path) -> ExitCode {
+    eprintln!("error: {e}");
+    match clear_outputs(out) {
+        Ok(0) => {}
+        Ok(n) => eprintln!(
+            "removed {n} file(s) an earlier run wrote into {}",
+            out.display()
+        ),
+        Err(e) => eprintln!("error: {e}"),
+    }
+    ExitCode::from(2)
+}
+
 fn main() -> ExitCode {
     let cli = match Cli::try_parse() {
         Ok(c) => c,
@@ -72,7 +89,7 @@ fn main() -> ExitCode {
     };
     let report = match analyse_file(&design, &options) {
         Ok(r) => r,
-        Err(e) => return bad(e),
+        Err(e) => return bad_input(e, &out),
     };
     let text = if json {
         match output::json::render(&report) {

@@ -88,21 +88,123 @@ impl fmt::Display for HostError {
 
 impl std::error::Error for HostError {}
 
-/// A C and Rust identifier from a name as written: ASCII letters and digits kept (lower
-/// case), everything else an underscore, a leading underscore before a digit.
+/// Words an identifier may not be in Rust (strict, reserved and the path keywords) or in C
+/// (C11 and C23 keywords, for a name that reaches C without a prefix); [`ident`] appends an
+/// underscore to them.
+pub const RESERVED: &[&str] = &[
+    "abstract",
+    "alignas",
+    "alignof",
+    "as",
+    "async",
+    "auto",
+    "await",
+    "become",
+    "bool",
+    "box",
+    "break",
+    "case",
+    "char",
+    "const",
+    "constexpr",
+    "continue",
+    "crate",
+    "default",
+    "do",
+    "double",
+    "dyn",
+    "else",
+    "enum",
+    "extern",
+    "false",
+    "final",
+    "float",
+    "fn",
+    "for",
+    "gen",
+    "goto",
+    "if",
+    "impl",
+    "in",
+    "inline",
+    "int",
+    "let",
+    "long",
+    "loop",
+    "macro",
+    "match",
+    "mod",
+    "move",
+    "mut",
+    "nullptr",
+    "override",
+    "priv",
+    "pub",
+    "ref",
+    "register",
+    "restrict",
+    "return",
+    "self",
+    "short",
+    "signed",
+    "sizeof",
+    "static",
+    "static_assert",
+    "struct",
+    "super",
+    "switch",
+    "thread_local",
+    "trait",
+    "true",
+    "try",
+    "type",
+    "typedef",
+    "typeof",
+    "typeof_unqual",
+    "union",
+    "unsafe",
+    "unsigned",
+    "unsized",
+    "use",
+    "virtual",
+    "void",
+    "volatile",
+    "where",
+    "while",
+    "yield",
+];
+
+/// Longest identifier [`ident`] makes, in bytes.
+pub const IDENT_MAX: usize = 48;
+
+/// A C and Rust identifier from a name as written, from a safe alphabet only: ASCII letters
+/// and digits kept (lower case), every run of anything else one underscore, none at either
+/// end; a leading underscore before a digit; "unnamed" for a name with no letter or digit;
+/// at most [`IDENT_MAX`] bytes; a keyword or reserved word of either language gets a
+/// trailing underscore. No character of the name reaches generated code any other way.
 pub fn ident(name: &str) -> String {
-    let mut s: String = name
-        .chars()
-        .map(|c| {
-            if c.is_ascii_alphanumeric() {
-                c.to_ascii_lowercase()
-            } else {
-                '_'
-            }
-        })
-        .collect();
-    if s.chars().next().is_none_or(|c| c.is_ascii_digit()) {
+    let mut s = String::new();
+    for c in name.chars() {
+        if c.is_ascii_alphanumeric() {
+            s.push(c.to_ascii_lowercase());
+        } else if !s.is_empty() && !s.ends_with('_') {
+            s.push('_');
+        }
+        if s.len() >= IDENT_MAX {
+            break;
+        }
+    }
+    while s.ends_with('_') {
+        s.pop();
+    }
+    if s.is_empty() {
+        s.push_str("unnamed");
+    }
+    if s.starts_with(|c: char| c.is_ascii_digit()) {
         s.insert(0, '_');
+    }
+    if RESERVED.contains(&s.as_str()) {
+        s.push('_');
     }
     s
 }
@@ -180,8 +282,54 @@ pub fn render_outputs(r: &report::Report) -> Result<Vec<(String, String)>, HostE
     Ok(files)
 }
 
+/// The file in an output directory that lists what the last run wrote there, one file name a
+/// line, so a later run removes exactly its own files and nothing else.
+pub const MANIFEST: &str = ".kickguard-outputs";
+
+/// The file names listed in `dir`'s manifest: plain names only (no separator, no `..`), so a
+/// changed manifest cannot point outside the directory.
+fn listed(dir: &Path) -> Vec<String> {
+    let Ok(text) = std::fs::read_to_string(dir.join(MANIFEST)) else {
+        return Vec::new();
+    };
+    text.lines()
+        .map(str::trim)
+        .filter(|n| {
+            !n.is_empty()
+                && *n != "."
+                && *n != ".."
+                && !n.contains(['/', '\\', '\0'])
+                && *n != MANIFEST
+        })
+        .map(ToString::to_string)
+        .collect()
+}
+
+/// Removes the files the last run wrote into `dir` (those its manifest lists) and the
+/// manifest; returns how many files were removed. A directory without a manifest is left
+/// alone.
+///
+/// # Errors
+/// [`HostError::Io`] when a listed file exists but cannot be removed.
+pub fn clear_outputs(dir: &Path) -> Result<usize, HostError> {
+    let mut n = 0;
+    for name in listed(dir) {
+        let p = dir.join(&name);
+        if p.is_file() {
+            std::fs::remove_file(&p).map_err(|e| HostError::Io {
+                path: p.display().to_string(),
+                message: e.to_string(),
+            })?;
+            n += 1;
+        }
+    }
+    let _ = std::fs::remove_file(dir.join(MANIFEST));
+    Ok(n)
+}
+
 /// Writes every output of a report into `dir`; returns the paths written. Everything is
-/// rendered before the first file is created.
+/// rendered before the first file is created; files an earlier run wrote that this run does
+/// not (a renamed driver's plot) are removed, and the manifest lists what is there now.
 ///
 /// # Errors
 /// [`HostError::Io`] when a file cannot be rendered or written.
@@ -195,18 +343,26 @@ pub fn write_outputs(r: &report::Report, dir: &Path) -> Result<Vec<PathBuf>, Hos
         }
     };
     std::fs::create_dir_all(dir).map_err(io(dir))?;
+    clear_outputs(dir)?;
     let mut written = Vec::new();
+    let mut manifest = String::new();
     for (name, body) in files {
-        let path = dir.join(name);
+        let path = dir.join(&name);
         std::fs::write(&path, body).map_err(io(&path))?;
+        manifest.push_str(&name);
+        manifest.push('\n');
         written.push(path);
     }
+    let m = dir.join(MANIFEST);
+    std::fs::write(&m, manifest).map_err(io(&m))?;
     Ok(written)
 }
 
 /// The call for a firmware's `build.rs`: analyses `design` and writes the outputs into `out_dir`
 /// (use `OUT_DIR`); fails with the reason when the file is bad or any check fails, so the build
 /// stops. Then `include!(concat!(env!("OUT_DIR"), "/kickguard_config.rs"))` in the firmware.
+/// A failed design still writes its outputs, and its constants stop any build that includes
+/// them (`compile_error!`, `#error`); a bad file removes what an earlier run wrote.
 ///
 /// # Errors
 /// A message for the build log: the located input error, or the report of the failed checks.
@@ -214,13 +370,19 @@ pub fn configure(
     design: impl AsRef<Path>,
     out_dir: impl AsRef<Path>,
 ) -> Result<report::Report, String> {
-    let r = analyse_file(design.as_ref(), &Options::default()).map_err(|e| e.to_string())?;
+    let r = match analyse_file(design.as_ref(), &Options::default()) {
+        Ok(r) => r,
+        Err(e) => {
+            let _ = clear_outputs(out_dir.as_ref());
+            return Err(e.to_string());
+        }
+    };
+    write_outputs(&r, out_dir.as_ref()).map_err(|e| e.to_string())?;
     if r.failed() {
         return Err(std::format!(
             "kickguard: the design is unsafe as described\n{}",
             output::text::render(&r)
         ));
     }
-    write_outputs(&r, out_dir.as_ref()).map_err(|e| e.to_string())?;
     Ok(r)
 }

@@ -92,6 +92,15 @@ pub fn avalanche_at(d: &DriverBoard, p: &Point) -> Result<Breakdown, Error> {
     d.switch.avalanche.scaled(p.at(Axis::AvalancheTol))
 }
 
+/// True where the switch itself is the clamp on a healthy switch-off (its own avalanche, its
+/// own clamp, or an H-bridge's switches and diodes), so it cannot avalanche above a clamp.
+pub fn switch_is_clamp(d: &DriverBoard) -> bool {
+    matches!(
+        d.clamp,
+        ClampBoard::Avalanche | ClampBoard::SwitchClamp { .. } | ClampBoard::HBridge(_)
+    )
+}
+
 /// A switch clamp: the avalanche-style breakdown part, or the active clamp with its overdrive.
 fn switch_clamp(
     part: &BreakdownPart,

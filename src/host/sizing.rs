@@ -3,9 +3,11 @@
 //! and compare counts.
 //!
 //! - **Zener** (E24 series, IEC 60063): the largest standard voltage whose worst peak switch
-//!   voltage over every vertex stays within the switch's derated rating, so the coil releases
-//!   as fast as the switch allows; the window of values that also meet the release time is
-//!   reported beside it. The peak switch voltage rises with V_Z at every vertex, so the
+//!   voltage over every vertex stays a margin (`voltage_margin`, default 10 %) below the
+//!   switch's derated rating, so the coil releases as fast as the switch allows with room for
+//!   what the model leaves out; when no value keeps that margin, the largest within the rating
+//!   itself, said so; the window of values that also meet the release time is reported
+//!   beside it. The peak switch voltage rises with V_Z at every vertex, so the
 //!   feasible values are one interval and a scan from the top finds its upper end.
 //! - **Hold duty**: the largest duty any vertex needs (lowest supply, hottest winding, highest
 //!   R, highest freewheel drop: D = (I·R + V_f)/(V + V_f) rises with R and V_f and falls with
@@ -64,6 +66,10 @@ pub struct ZenerChoice {
     pub chosen: Volts,
     /// Whether any value keeps the switch within its derated rating.
     pub fits_rating: bool,
+    /// Whether the chosen value also keeps the margin target below it.
+    pub keeps_margin: bool,
+    /// The chosen value's worst peak switch voltage, V.
+    pub worst_peak: f32,
     /// The smallest E24 value that still meets the release time (None without a release
     /// requirement, or when even the chosen value misses it).
     pub smallest_for_release: Option<Volts>,
@@ -117,17 +123,27 @@ pub fn size_zener(
         })
     };
     let candidates: std::vec::Vec<f32> = e24_values().filter(|v| *v < limit && valid(*v)).collect();
-    let mut chosen = None;
+    let target = limit * (1.0 - d.clamp.breakdown().map_or(0.0, |p| p.auto_margin));
+    // The peak rises with V_Z, so from the top the first value within the target is the
+    // largest; the first within the rating itself is the fallback.
+    let (mut chosen, mut fallback) = (None, None);
     for v in candidates.iter().rev() {
-        if worst_peak(&with_zener(d, Volts::new(*v)?), points)? <= limit {
-            chosen = Some(*v);
+        let peak = worst_peak(&with_zener(d, Volts::new(*v)?), points)?;
+        if fallback.is_none() && peak <= limit {
+            fallback = Some((*v, peak));
+        }
+        if peak <= target {
+            chosen = Some((*v, peak));
             break;
         }
     }
-    let Some(top) = chosen else {
+    let keeps_margin = chosen.is_some();
+    let Some((top, peak)) = chosen.or(fallback) else {
         return Ok(ZenerChoice {
             chosen: Volts::new(1.0)?,
             fits_rating: false,
+            keeps_margin: false,
+            worst_peak: 0.0,
             smallest_for_release: None,
         });
     };
@@ -142,6 +158,8 @@ pub fn size_zener(
     Ok(ZenerChoice {
         chosen: Volts::new(top)?,
         fits_rating: true,
+        keeps_margin,
+        worst_peak: peak,
         smallest_for_release: smallest,
     })
 }

@@ -126,6 +126,80 @@ pub fn rail_off_check(
     })
 }
 
+/// Identical inputs feeding an unpowered rail together: `count` lines at `v_signal` through
+/// `r_series` each. Fields are public for readable literals; [`rail_off_together`] validates
+/// them.
+#[derive(Debug, Clone, Copy, PartialEq)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct RailSource {
+    /// The steady signal, V (≥ 0; at or below the rail it feeds nothing).
+    pub v_signal: Volts,
+    /// The series resistor of each line (> 0).
+    pub r_series: Ohms,
+    /// How many identical lines.
+    pub count: u32,
+}
+
+/// Rail-off back-powering by every input at once: the voltage `sources` push onto the
+/// unpowered `rail` together, against what it allows.
+///
+/// Model: every line's upper clamp diode feeds the one rail node, whose loads are `rail.load`
+/// to ground, so the rail voltage V solves Σ nₖ·Iₖ(V) = V/R_load, where Iₖ(V) is the current of
+/// the diode law (or fixed drop) in series with Rₖ for the excess Vₖ − V (the same law as
+/// [`rail_off_check`], which is the one-line case). The left side falls and the right side
+/// rises with V, so the root is unique in [0, max Vₖ]; it is found by bracketed Illinois
+/// iteration to 1 µV. Lines judged one at a time understate the rail when several are high
+/// at once (a board whose signals stay up while its own supply is off).
+///
+/// Work: at most 100 iterations, each one diode-and-resistor solve per entry of `sources`.
+///
+/// # Errors
+/// `rail.load` = 0 → [`Reason::NotPositive`] on `"rail load resistance"`; `rail.allowed` ≤ 0 →
+/// [`Reason::NotPositive`] on `"allowed rail voltage"`; a signal that is negative or not
+/// finite → on `"signal voltage"`; a series resistor of 0 → [`Reason::NotPositive`] on
+/// `"series resistor"`; a total current beyond the quantities' range → on `"rail current"`;
+/// errors of [`Pin::validate`] and of the diode model.
+pub fn rail_off_together(
+    pin: &Pin,
+    sources: &[RailSource],
+    rail: &UnpoweredRail,
+) -> Result<RailOff, Error> {
+    pin.validate()?;
+    let rl = error::positive("rail load resistance", rail.load.value())?;
+    let allowed = error::positive("allowed rail voltage", rail.allowed.value())?;
+    let mut top = 0.0f32;
+    for s in sources {
+        top = top.max(error::non_negative("signal voltage", s.v_signal.value())?);
+        error::positive("series resistor", s.r_series.value())?;
+    }
+    // Σ nₖ·Iₖ(V) at rail voltage V; a diode-model refusal poisons the sum (NaN) and is
+    // reported after the search by evaluating once more.
+    let fed = |v: f32| -> Result<f32, Error> {
+        let at = Pin {
+            vdd: Volts::raw(v),
+            ..*pin
+        };
+        let mut sum = 0.0f32;
+        for s in sources {
+            sum += s.count as f32 * at.diode_current(s.v_signal.value() - v, s.r_series)?;
+        }
+        Ok(sum)
+    };
+    let balance = |v: f32| fed(v).map_or(f32::NAN, |i| i - v / rl);
+    let v = if top > 0.0 && balance(0.0) > 0.0 {
+        crate::solve::illinois(balance, 0.0, top, 1e-6, 100)
+            .ok_or(Error::new("rail voltage", Reason::Unreachable))?
+    } else {
+        0.0
+    };
+    let i = error::result("rail current", fed(v)?)?;
+    Ok(RailOff {
+        current: Amps::new(i)?,
+        rail_voltage: Volts::new(v)?,
+        verdict: Verdict::of(v, allowed, "allowed rail voltage")?,
+    })
+}
+
 /// How an injected current shares between the internal clamp and an external one.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]

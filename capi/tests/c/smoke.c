@@ -53,7 +53,7 @@ int main(void) {
 
     kg_history h;
     memset(&h, 0, sizeof h);
-    kg_verdict open = {1, 1, 0};
+    kg_verdict open = {KG_VERDICT_FAULT, KG_CONDITION_CLAMP_OPEN, 0};
     unsigned n = 0;
     for (int k = 0; k < 20; k++) {
         kg_history_push(&h, &open);

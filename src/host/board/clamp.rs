@@ -6,7 +6,7 @@ use super::read::{range, ReadQ};
 use super::{BreakdownPart, ClampBoard, DiodePart, SupplyRange};
 use crate::diode::{Diode, DiodeParams};
 use crate::host::file::quantity::{self, Unit};
-use crate::host::file::{self, ClampSpec, Reader};
+use crate::host::file::{self, fields, ClampSpec, Reader};
 use crate::host::HostError;
 use crate::units::{Amps, Farads, Joules, Ohms, PerKelvin, Temperature, Volts, Watts};
 use crate::varistor::Varistor;
@@ -14,7 +14,14 @@ use std::format;
 use std::string::String;
 
 /// The kinds the file accepts, for the error message.
-const KINDS: &str = "diode, resistor+diode, zener+diode, switched-freewheel, tvs-across-coil, varistor, tvs-across-switch, switch-clamp, avalanche, h-bridge or rc-snubber";
+fn kinds() -> String {
+    fields::CLAMP_KINDS.join(", ")
+}
+
+/// The margin an "auto" zener keeps below the switch's derated rating at the worst corner
+/// unless `voltage_margin` says otherwise: 10 % (common practice: room for what the model
+/// leaves out, such as wiring inductance and the switch's own turn-off overshoot).
+pub const DEFAULT_AUTO_MARGIN: f32 = 0.10;
 
 /// Converts a driver's clamp section.
 ///
@@ -30,6 +37,9 @@ pub fn convert(
 ) -> Result<ClampBoard, HostError> {
     let at = |x: &str| format!("{field}.clamp.{x}");
     let kind = c.kind.get_ref().as_str();
+    if fields::CLAMP_KINDS.contains(&kind) {
+        unused_fields(r, &at, kind, c)?;
+    }
     let clamp = match kind {
         "diode" => ClampBoard::Diode(diode(r, &at(""), c)?),
         "h-bridge" => ClampBoard::HBridge(diode(r, &at(""), c)?),
@@ -69,7 +79,7 @@ pub fn convert(
         other => {
             return Err(r.at(
                 &at("kind"),
-                format!("unknown kind \"{other}\"; expected {KINDS}"),
+                format!("unknown kind \"{other}\"; expected one of {} (docs/design-file.md lists the fields each uses)", kinds()),
             ))
         }
     };
@@ -80,6 +90,40 @@ pub fn convert(
         above_supply(r, &at("voltage"), &clamp, supply, ambient)?;
     }
     Ok(clamp)
+}
+
+/// A field the kind cannot use is an error naming it, never silently ignored; so is a
+/// `voltage_margin` without `voltage = "auto"`.
+fn unused_fields(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    kind: &str,
+    c: &ClampSpec,
+) -> Result<(), HostError> {
+    for (name, span) in c.present() {
+        let Some(span) = span else { continue };
+        let users = fields::clamp_kinds_of(name);
+        if !users.contains(&kind) {
+            return Err(r.error(
+                span,
+                &at(name),
+                format!(
+                    "a \"{kind}\" clamp does not use this field (it is used by: {})",
+                    users.join(", ")
+                ),
+            ));
+        }
+    }
+    if let Some(m) = &c.voltage_margin {
+        if !c.voltage.as_ref().is_some_and(file::is_auto) {
+            return Err(r.error(
+                m.span(),
+                &at("voltage_margin"),
+                "only with voltage = \"auto\" (the margin the sizing keeps)",
+            ));
+        }
+    }
+    Ok(())
 }
 
 fn resistor(r: &Reader<'_>, field: &str, q: &Option<file::Q>) -> Result<Ohms, HostError> {
@@ -228,8 +272,17 @@ fn breakdown(
         )?
         .unwrap_or(0.0);
     let (power_rating, energy_rating, rth) = ratings(r, &at, c)?;
+    let auto_margin = r
+        .oq(
+            &c.voltage_margin,
+            &at("voltage_margin"),
+            Unit::Percent,
+            range(0.0, 0.5, "0 … 50 %"),
+        )?
+        .unwrap_or(DEFAULT_AUTO_MARGIN);
     let part = BreakdownPart {
         voltage,
+        auto_margin,
         test_current: Amps::new(izt).map_err(|e| r.model(&at("test_current"), e))?,
         dynamic_resistance: Ohms::new(rz).map_err(|e| r.model(&at("dynamic_resistance"), e))?,
         tempco: PerKelvin::new(tc).map_err(|e| r.model(&at("tempco"), e))?,

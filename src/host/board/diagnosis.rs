@@ -150,7 +150,17 @@ pub fn convert(
     if !(1..=100).contains(&confirmations) {
         return Err(r.at(&at("confirmations"), "must be 1 … 100"));
     }
+    let reference = r
+        .oq(
+            &g.comparator_reference,
+            &at("comparator_reference"),
+            Unit::Volt,
+            range(0.01, 100.0, "10 mV … 100 V"),
+        )?
+        .map(|v| Volts::new(v).map_err(|e| r.model(&at("comparator_reference"), e)))
+        .transpose()?;
     Ok(Some(DiagnosisBoard {
+        reference,
         measurements,
         guard: Duty::new(guard).map_err(|e| r.model(&at("guard"), e))?,
         jitter_ticks: libm::ceilf(jitter) as u32,

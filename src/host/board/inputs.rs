@@ -150,9 +150,13 @@ pub fn convert(
     if inputs.iter().map(|i| i.count).sum::<u32>() > 64 {
         return Err(r.at("input", "more than 64 inputs in all"));
     }
+    // Drivers and inputs share one namespace of generated modules.
     super::convert::unique_names(
         r,
-        inputs.iter().map(|i| (i.name.as_str(), i.field.as_str())),
+        drivers
+            .iter()
+            .map(|d| (d.name.as_str(), d.field.as_str()))
+            .chain(inputs.iter().map(|i| (i.name.as_str(), i.field.as_str()))),
     )?;
     Ok(Some(InputsBoard {
         supply,
@@ -237,6 +241,10 @@ fn input(
         count,
         source,
         resistor,
+        present_unpowered: inp
+            .present_when_unpowered
+            .as_ref()
+            .is_none_or(|b| *b.get_ref()),
     })
 }
 

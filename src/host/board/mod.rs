@@ -152,6 +152,8 @@ pub struct DiodePart {
 pub struct BreakdownPart {
     /// Breakdown voltage at the test current, or None when the file asks to size it ("auto").
     pub voltage: Option<Volts>,
+    /// With "auto": the relative margin the sizing keeps below the switch's derated rating.
+    pub auto_margin: f32,
     /// Test current.
     pub test_current: Amps,
     /// Dynamic resistance.
@@ -343,6 +345,9 @@ pub struct DiagnosisBoard {
     pub shorted: (f32, f32),
     /// How many fault readings in a row the firmware waits for.
     pub confirmations: u32,
+    /// The comparator's reference voltage, if given (the proposed comparator's divider ratio
+    /// is emitted for it).
+    pub reference: Option<Volts>,
 }
 
 /// The microcontroller's pins and inputs.
@@ -399,4 +404,7 @@ pub struct InputBoard {
     pub source: SignalSource,
     /// Its series resistor, or None to size it.
     pub resistor: Option<Ohms>,
+    /// Whether its signal can be present while the pins' supply is off (the rail-off checks
+    /// count it only then).
+    pub present_unpowered: bool,
 }

@@ -15,7 +15,7 @@ use crate::host::board::{Board, InputBoard, InputsBoard, SignalSource};
 use crate::host::engine::DriverRun;
 use crate::host::sizing::e24_at_least;
 use crate::host::HostError;
-use crate::input::rail::{rail_off_check, UnpoweredRail};
+use crate::input::rail::{rail_off_check, rail_off_together, RailSource, UnpoweredRail};
 use crate::input::resistor::{max_resistor, min_resistor, InjectionLimits, UpperLimits};
 use crate::input::{Pin, SignalRange};
 use crate::units::{Ohms, Seconds, Temperature, Volts};
@@ -234,7 +234,7 @@ fn one_input(
     p: &InputsBoard,
     inp: &InputBoard,
     out: &mut Outcome,
-) -> Result<(f32, f32), HostError> {
+) -> Result<(f32, f32, RailSource), HostError> {
     let fault = |e: crate::Error| board.fault(&inp.field, format!("{e}"));
     let sig = signal(board, runs, inp)?;
     let r = resistor(board, p, inp, &sig, out)?;
@@ -271,8 +271,15 @@ fn one_input(
         );
         out.checks.push(c);
     }
-    rail_off(board, p, inp, &sig, r, out)?;
-    Ok((up * inp.count as f32, steady * inp.count as f32))
+    let source = RailSource {
+        v_signal: sig.steady_max,
+        r_series: r,
+        count: if inp.present_unpowered { inp.count } else { 0 },
+    };
+    if inp.present_unpowered {
+        rail_off(board, p, inp, &sig, r, out)?;
+    }
+    Ok((up * inp.count as f32, steady * inp.count as f32, source))
 }
 
 /// Every input check of the board.
@@ -285,11 +292,14 @@ pub fn checks(board: &Board, runs: &[DriverRun]) -> Result<Outcome, HostError> {
         return Ok(out);
     };
     let (mut total, mut steady) = (0.0f32, 0.0f32);
+    let mut sources = std::vec::Vec::new();
     for inp in &p.inputs {
-        let (t, s) = one_input(board, runs, p, inp, &mut out)?;
+        let (t, s, src) = one_input(board, runs, p, inp, &mut out)?;
         total += t;
         steady += s;
+        sources.push(src);
     }
+    rail_off_board(board, p, &sources, &mut out)?;
     let lim = Limit {
         value: p.total_limit.value(),
         bound: Bound::AtMost,
@@ -325,7 +335,63 @@ pub fn checks(board: &Board, runs: &[DriverRun]) -> Result<Outcome, HostError> {
     Ok(out)
 }
 
-/// The unpowered rail pushed up by a steady signal.
+/// The unpowered rail pushed up by every input at its steady maximum at once (a board whose
+/// signals stay up while its own supply is off: the drain-sense lines of valves on a live
+/// 24 V supply, a sensor powered from elsewhere).
+fn rail_off_board(
+    board: &Board,
+    p: &InputsBoard,
+    sources: &[RailSource],
+    out: &mut Outcome,
+) -> Result<(), HostError> {
+    let Some((load, allowed)) = p.rail_off else {
+        return Ok(());
+    };
+    if sources.iter().map(|s| s.count).sum::<u32>() < 2 {
+        return Ok(());
+    }
+    let fault = |e: crate::Error| board.fault("pins.rail_off_load", format!("{e}"));
+    let pn = Pin::new(p.supply.0, p.clamp, p.max_temperature).map_err(fault)?;
+    let off = rail_off_together(&pn, sources, &UnpoweredRail { load, allowed }).map_err(fault)?;
+    let lim = Limit {
+        value: allowed.value(),
+        bound: Bound::AtMost,
+        source: "allowed voltage on the unpowered rail".into(),
+    };
+    let absent: std::vec::Vec<&str> = p
+        .inputs
+        .iter()
+        .filter(|i| !i.present_unpowered)
+        .map(|i| i.name.as_str())
+        .collect();
+    let c = Check::valued(
+        "board",
+        "rail_off_total",
+        "voltage every input together pushes onto the unpowered rail",
+        off.rail_voltage.value(),
+        Unit::Volt,
+        Some(lim),
+        Corner::Stated("every input at its steady maximum at once, hottest microcontroller".into()),
+    );
+    let mut note = format!(
+        "{:.3} mA into the rail's {load} load from all lines together",
+        off.current.value() * 1e3
+    );
+    if !absent.is_empty() {
+        note.push_str(&format!(
+            " (left out, declared absent while the pins' supply is off: {})",
+            absent.join(", ")
+        ));
+    }
+    out.checks.push(if off.verdict.pass {
+        c.noted(note)
+    } else {
+        c.with_status(Status::Fail).noted(format!("{note}: parts on the rail may half-power while it is off: larger series resistors, a lower pins.rail_off_load (a bleeder) or a clamp to a powered rail"))
+    });
+    Ok(())
+}
+
+/// The unpowered rail pushed up by one input's steady signal.
 fn rail_off(
     board: &Board,
     p: &InputsBoard,
@@ -355,11 +421,13 @@ fn rail_off(
         Some(lim),
         Corner::Stated("steady maximum signal, hottest microcontroller".into()),
     );
+    // The allowed voltage is the design's own requirement (pins.rail_off_allowed): beyond it
+    // the check fails, like every other limit.
     out.checks.push(if off.verdict.pass {
         c
     } else {
-        c.with_status(Status::Warn)
-            .noted("parts on the rail may half-power while it is off")
+        c.with_status(Status::Fail)
+            .noted("parts on the rail may half-power while it is off: a larger series resistor, a lower pins.rail_off_load (a bleeder) or a clamp to a powered rail")
     });
     Ok(())
 }

@@ -102,7 +102,8 @@ pub fn driver_checks(
     open_clamp::checks(run, &mut out);
     hold::checks(board, run, &mut out)?;
     diagnosis::checks(board, run, &mut out)?;
-    propose::checks(board, run, &mut out)?;
+    let proposal = propose::checks(board, run, &mut out)?;
+    open_clamp::require_detection(run, proposal.as_ref(), &mut out);
     Ok(out)
 }
 

@@ -20,7 +20,7 @@
 //! Work: one more sweep of the driver's vertices.
 
 use super::diagnosis::{condition_words, windows};
-use super::{Check, Corner, Metric, Outcome, Status};
+use super::{Check, Constant, Corner, Metric, Outcome, Status, WindowTable};
 use crate::diagnosis::Condition;
 use crate::host::board::{Board, MeasureBoard};
 use crate::host::engine::{sweep, DriverRun};
@@ -35,7 +35,7 @@ use std::vec::Vec;
 pub const COMPARATOR_TOLERANCE: f32 = 0.02;
 
 /// The proposed comparator, as judged over every corner.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, PartialEq)]
 pub struct Proposal {
     /// Highest healthy switch voltage, V.
     pub healthy_max: f32,
@@ -51,6 +51,8 @@ pub struct Proposal {
     pub detectable: bool,
     /// Slowest timer that separates them, Hz.
     pub slowest_tick: f32,
+    /// Its window table: rows of [lowest tick, highest tick, condition code].
+    pub rows: Vec<[u32; 3]>,
 }
 
 /// The lowest and highest switch voltages that bound a threshold: (healthy max, open min).
@@ -127,6 +129,10 @@ pub fn propose(board: &Board, run: &DriverRun) -> Result<Option<Proposal>, HostE
         open_ticks: open.ticks,
         detectable: open.ticks.0 > healthy.ticks.1 || open.ticks.1 < healthy.ticks.0,
         slowest_tick: slowest,
+        rows: ws
+            .iter()
+            .map(|w| [w.ticks.0, w.ticks.1, w.condition.code()])
+            .collect(),
     }))
 }
 
@@ -151,6 +157,36 @@ fn proposal_words(p: &Proposal, tick_hz: f32) -> String {
     )
 }
 
+/// The proposal as constants: the threshold in millivolts, the divider ratio for the stated
+/// comparator reference (parts per million: the drain voltage × ratio = the reference at the
+/// threshold), and its window table, so a firmware can adopt it without copying numbers by
+/// hand (the windows hold only once the comparator is built at this threshold).
+fn emit(d: &crate::host::board::DriverBoard, p: &Proposal, out: &mut Outcome) {
+    out.constants.push(Constant::new(
+        &d.module,
+        "PROPOSED_COMPARATOR_MV",
+        libm::roundf(p.threshold * 1e3) as u32,
+        "proposed drain comparator threshold across the switch, mV (judged with ±2 % for the divider and comparator)",
+    ));
+    if let Some(vref) = d.diagnosis.as_ref().and_then(|g| g.reference) {
+        out.constants.push(Constant::new(
+            &d.module,
+            "PROPOSED_DIVIDER_PPM",
+            libm::roundf(vref.value() / p.threshold * 1e6) as u32,
+            &format!("divider ratio for the proposed comparator with a {vref} reference, parts per million (drain voltage × ratio = reference at the threshold)"),
+        ));
+    }
+    out.windows.push(WindowTable {
+        scope: d.module.clone(),
+        name: "PROPOSED_WINDOWS".into(),
+        measurement: format!(
+            "proposed comparator at {:.1} V across the switch",
+            p.threshold
+        ),
+        rows: p.rows.clone(),
+    });
+}
+
 /// Which measurement would show a fault the file's measurements cannot.
 fn remedy(c: Condition) -> &'static str {
     match c {
@@ -163,14 +199,19 @@ fn remedy(c: Condition) -> &'static str {
     }
 }
 
-/// The proposal check, and the faults that stay invisible with a remedy each.
+/// The proposal check, and the faults that stay invisible with a remedy each; returns the
+/// proposal, if one fits.
 ///
 /// # Errors
 /// As [`propose`].
-pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+pub fn checks(
+    board: &Board,
+    run: &DriverRun,
+    out: &mut Outcome,
+) -> Result<Option<Proposal>, HostError> {
     let d = &run.d;
     if d.diagnosis.is_none() {
-        return Ok(());
+        return Ok(None);
     }
     let corner = || Corner::Stated("every corner".into());
     let title = "diagnosis: proposed drain comparator";
@@ -187,6 +228,7 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
                 Status::Warn
             };
             let shown = format!("{:.1} V", p.threshold);
+            emit(d, p, out);
             out.checks.push(
                 Check::worded(
                     &d.name,
@@ -226,7 +268,9 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
                 .iter()
                 .find(|k| c.id == format!("diagnosis_{}", condition_words(**k).replace(' ', "_")))
         })
-        .filter(|k| !(**k == Condition::FreewheelOpen && proposal.is_some_and(|p| p.detectable)))
+        .filter(|k| {
+            !(**k == Condition::FreewheelOpen && proposal.as_ref().is_some_and(|p| p.detectable))
+        })
         .map(|k| format!("{}: {}", condition_words(*k), remedy(*k)))
         .collect();
     if !invisible.is_empty() {
@@ -242,5 +286,5 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
             .noted(format!("and what would show it — {}", invisible.join("; "))),
         );
     }
-    Ok(())
+    Ok(proposal)
 }

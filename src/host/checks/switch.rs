@@ -7,13 +7,25 @@
 //! falls with R and with the winding temperature (through I₀), rises with a clamp's tolerance
 //! and, for a positive tempco, its temperature; a diode's share falls as it heats. Monotone in
 //! each axis, so the vertex search is exact.
+//!
+//! A clamp must clamp below the switch's own avalanche: where the healthy peak across the
+//! switch can reach the switch's avalanche onset (its stated voltage at the bottom of its
+//! tolerance and at its temperature), the lower of the two clamps clamps and the switch
+//! avalanches on every healthy switch-off. The check takes the peak over the onset at the same
+//! vertex: the peak depends only on the supply, coil and clamp axes and the onset only on the
+//! switch's avalanche axes, so the ratio is monotone in each axis.
+//!
+//! With the switch's own avalanche as the clamp (kind "avalanche") the peak is the avalanche
+//! voltage, above the derated rating by design: that kind is judged by its avalanche energy,
+//! its survival on every switch-off and its junction temperature instead.
 
-use super::{figure_check, Bound, Check, Limit, Metric, Outcome, Status, Unit};
+use super::{figure_check, figures_where, Bound, Check, Limit, Metric, Outcome, Status, Unit};
 use crate::clamp::Side;
-use crate::host::board::Board;
+use crate::host::board::{Board, ClampBoard};
 use crate::host::engine::DriverRun;
-use crate::host::figures::REPETITIVE;
+use crate::host::figures::{survivable, REPETITIVE};
 use std::format;
+use std::string::String;
 
 /// The switch's checks.
 pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) {
@@ -37,9 +49,14 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) {
         Unit::Volt,
         Some(lim),
     ) {
-        out.checks
-            .push(c.noted("at switch-off, with the whole on-current in the clamp"));
+        let c = if matches!(d.clamp, ClampBoard::Avalanche) {
+            c.with_status(Status::Info).noted("the switch's own avalanche sets the peak, above the derated rating by design: judged instead by its avalanche energy, its survival on every switch-off and its junction temperature below")
+        } else {
+            c.noted("at switch-off, with the whole on-current in the clamp")
+        };
+        out.checks.push(c);
     }
+    below_avalanche(run, out);
     if d.side == Side::High {
         if let Some(c) = figure_check(
             run,
@@ -55,6 +72,50 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) {
     if run.figures.iter().any(|f| f.energy.switch > 0.0) {
         self_avalanche(board, run, out);
     }
+}
+
+/// The healthy peak against the switch's avalanche onset; where it reaches it, what happens.
+fn below_avalanche(run: &DriverRun, out: &mut Outcome) {
+    let d = &run.d;
+    let lim = Limit {
+        value: 1.0,
+        bound: Bound::AtMost,
+        source:
+            "the switch's avalanche onset at the same corner (tolerance and temperature included)"
+                .into(),
+    };
+    let Some(c) = figure_check(
+        run,
+        Metric::AvalancheShare,
+        "clamp_below_avalanche",
+        "healthy peak across the switch as a share of its avalanche onset",
+        Unit::Fraction,
+        Some(lim),
+    ) else {
+        return;
+    };
+    let note = match (c.status, figures_where(run, Metric::AvalancheShare)) {
+        (Status::Fail, Some(f)) => {
+            let onset = f.avalanche_onset.unwrap_or(0.0);
+            let (energy, count) = f.open.map_or((None, None), |o| {
+                (
+                    Some(o.energy),
+                    survivable(&d.switch, d.switching_rate, o.energy, o.start_c),
+                )
+            });
+            let count = count.map_or(
+                String::from("not judged without an avalanche energy rating"),
+                super::open_clamp::count_words,
+            );
+            format!(
+                "the clamp would hold {:.2} V across the switch, but the switch avalanches from {onset:.2} V there: the lower of the two clamps clamps, so the switch avalanches on every healthy switch-off and takes up to {} per switch-off (the open-clamp figure, an upper bound: the clamp shares the current), surviving {count}. The peak-voltage and clamp-energy figures of this driver assume the clamp alone and do not hold: lower the clamp voltage or choose a switch with a higher avalanche voltage",
+                f.peak_switch,
+                energy.map_or(String::from("its avalanche energy"), |e| format!("{:.3} mJ", e * 1e3)),
+            )
+        }
+        _ => String::from("the clamp holds the switch below its own avalanche at every corner"),
+    };
+    out.checks.push(c.noted(note));
 }
 
 /// Every switch-off is an avalanche (or the switch's own clamp): energy, survival, heat.

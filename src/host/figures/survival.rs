@@ -21,6 +21,8 @@
 
 use crate::host::board::SwitchBoard;
 use crate::units::Hertz;
+use std::format;
+use std::string::String;
 
 /// The count that stands for "any number, within the thermal limits".
 pub const REPETITIVE: f32 = 1.0e6;
@@ -93,4 +95,70 @@ fn count_cooling(dt: f32, ln_a: f32, headroom: f32) -> f32 {
     let m = libm::floorf(libm::logf(x) / ln_a);
     // Bounds are constants in order and m is finite (x > 0, ln a < 0): clamp cannot panic.
     (m + 1.0).clamp(1.0, REPETITIVE)
+}
+
+/// Why [`survivable`] gives the count it gives, in words: the pulse energy, the single-pulse
+/// rating derated to the start temperature, and the rule that set the count (no repetitive
+/// rating, above it, the thermal recursion, the average heating, or no thermal data).
+pub fn reason(sw: &SwitchBoard, rate: Option<Hertz>, energy: f32, start_c: f32) -> String {
+    let (Some(e_as), Some(tj)) = (sw.energy_single, sw.junction_max) else {
+        return "no single-pulse avalanche energy rating (switch.avalanche_energy with junction_max)".into();
+    };
+    let (e_as, tj_max) = (e_as.value(), tj.celsius());
+    let span = tj_max - 25.0;
+    let allowed = if start_c <= 25.0 {
+        e_as
+    } else {
+        e_as * (tj_max - start_c) / span
+    };
+    let head = format!(
+        "{} per switch-off against the single-pulse rating {} derated to {} from a {start_c:.1} °C start",
+        mj(energy),
+        mj(e_as),
+        mj(allowed)
+    );
+    if !(energy <= allowed) {
+        return format!("{head}: one pulse already exceeds it");
+    }
+    let Some(e_ar) = sw.energy_repetitive.map(|e| e.value()) else {
+        return format!(
+            "{head}; no repetitive rating given (switch.avalanche_energy_repetitive), so one pulse"
+        );
+    };
+    if !(energy <= e_ar) {
+        return format!(
+            "{head}; above the repetitive rating {}, so one pulse",
+            mj(e_ar)
+        );
+    }
+    let t_lim = tj_max - energy / e_as * span;
+    let thermal = match (sw.thermal_capacitance, rate, sw.thermal_resistance) {
+        (Some(c), Some(f), Some(r)) => format!(
+            "each pulse heats the junction {:.2} K (E/C), cooling with τ = R_th·C = {:.3} s between pulses at {} Hz",
+            energy / c,
+            r * c,
+            f.value()
+        ),
+        (Some(c), _, _) => format!(
+            "each pulse heats the junction {:.2} K (E/C), no cooling counted (switching_rate and thermal_resistance not both given)",
+            energy / c
+        ),
+        (None, Some(f), Some(r)) => format!(
+            "average heating E·f·R_th = {:.2} K against {:.1} K of headroom",
+            energy * f.value() * r,
+            t_lim - start_c
+        ),
+        _ => {
+            return format!("{head}; within the repetitive rating {}, but no thermal data to count pulses (switch.thermal_capacitance, or switching_rate with thermal_resistance), so one pulse", mj(e_ar))
+        }
+    };
+    format!(
+        "{head}; within the repetitive rating {}; later pulses start hotter: {thermal}, until the junction passes {t_lim:.1} °C (where the derated rating equals the pulse)",
+        mj(e_ar)
+    )
+}
+
+/// An energy in millijoules, for the words.
+fn mj(e: f32) -> String {
+    format!("{:.3} mJ", e * 1e3)
 }

@@ -5,6 +5,7 @@
 pub mod c;
 pub mod json;
 pub mod rust;
+pub mod safe;
 pub mod show;
 pub mod svg;
 pub mod text;
@@ -30,6 +31,17 @@ pub fn by_module(
         }
     }
     m
+}
+
+/// The failed checks as `subject.check` in the safe alphabet of identifiers (for the line
+/// that stops a firmware build); None when nothing failed.
+pub fn failed_list(report: &Report) -> Option<String> {
+    let failed: Vec<String> = report
+        .checks()
+        .filter(|c| c.status == super::checks::Status::Fail)
+        .map(|c| std::format!("{}.{}", super::ident(&c.subject), super::ident(&c.id)))
+        .collect();
+    (!failed.is_empty()).then(|| failed.join(", "))
 }
 
 /// The condition codes of the diagnosis tables, in words.
