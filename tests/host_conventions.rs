@@ -330,7 +330,7 @@ fn zener_tolerance_tempco_dynamic_resistance_and_self_heating() {
         "switching_rate = \"2 Hz\"",
     );
     let r = analyse(&text);
-    let e_zener = check(&r, "coil", "clamp_energy").value.unwrap() as f64;
+    let e_zener = check(&r, "coil", "breakdown_energy").value.unwrap() as f64;
     let rise = e_zener * 2.0 * 100.0;
     let hottest = check(&r, "coil", "self_heating").value.unwrap() as f64;
     assert!(
@@ -409,4 +409,159 @@ fn proposed_comparator_sits_between_health_and_avalanche() {
     )
     .unwrap_err();
     assert!(format!("{e}").contains("diagnosis.shorted_turns"), "{e}");
+}
+
+/// A 12 … 16 V zener + diode driver (fixed 0.8 V diode, a datasheet zener with no dynamic
+/// resistance and no tempco: its voltage is exactly the stated one), with `switch` and
+/// `diagnosis` added.
+fn zener_design(zener: &str, switch: &str, diagnosis: &str) -> String {
+    let coil = "inductance = \"0.2 H\"\ninductance_tolerance = \"10 %\"\nresistance = \"90 Ω\"\nresistance_tolerance = \"10 %\"\nresistance_at = \"20 °C\"";
+    let clamp = format!("kind = \"zener+diode\"\ndiode = \"0.8 V\"\nvoltage = \"{zener}\"");
+    design(
+        ("12 V", "12 V", "16 V"),
+        ("-40 °C", "85 °C", "10 K"),
+        coil,
+        switch,
+        &clamp,
+        "",
+    ) + diagnosis
+}
+
+#[test]
+fn an_open_clamp_no_measurement_can_see_fails_the_design() {
+    // 60 V switch without a repetitive avalanche rating: it survives one open-clamp switch-off
+    // (common practice: the single-pulse rating allows one). One 20 V comparator: a healthy
+    // switch-off (16 + 24 + 0.8 = 40.8 V at most) trips it as the open clamp does, and the decay
+    // times overlap, so nothing the firmware measures can confirm the fault: the survival count
+    // is a promise the firmware cannot keep.
+    let switch = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"\navalanche_energy = \"200 mJ\"\njunction_max = \"150 °C\"";
+    let diag = "[driver.diagnosis]\ncomparator = [\"20 V\"]\nguard = \"5 %\"\nshorted_turns = \"10 %\"\nconfirmations = 1\n";
+    let r = analyse(&zener_design("24 V", switch, diag));
+    let seen = check(&r, "coil", "diagnosis_clamp_path_open");
+    assert_ne!(seen.status, Status::Pass, "{seen:?}");
+    let s = check(&r, "coil", "open_clamp_survival");
+    assert_eq!((s.status, s.value), (Status::Fail, Some(1.0)), "{s:?}");
+    assert!(
+        s.note
+            .contains("no configured measurement detects the open clamp"),
+        "{}",
+        s.note
+    );
+    // The note names the comparator that would show it; adding it makes the design pass.
+    let at = s.note.split("comparator at ").nth(1).unwrap();
+    let volts: f32 = at.split(' ').next().unwrap().parse().unwrap();
+    // Between the healthy maximum 40.8 V and the avalanche 66 V, with ±2 % room both ways.
+    assert!(volts * 0.98 > 40.8 && volts * 1.02 < 66.0, "{volts}");
+    let fixed = diag.replace("[\"20 V\"]", &format!("[\"20 V\", \"{volts} V\"]"));
+    let r = analyse(&zener_design("24 V", switch, &fixed));
+    assert_eq!(
+        check(&r, "coil", "diagnosis_clamp_path_open").status,
+        Status::Pass
+    );
+    assert_eq!(
+        check(&r, "coil", "open_clamp_survival").status,
+        Status::Pass
+    );
+    assert!(!r.failed());
+    // Without any diagnosis, a finite count fails too: nothing would ever stop the switching.
+    let r = analyse(&zener_design("24 V", switch, ""));
+    assert_eq!(
+        check(&r, "coil", "open_clamp_survival").status,
+        Status::Fail
+    );
+}
+
+#[test]
+fn a_clamp_above_the_switch_avalanche_does_not_clamp() {
+    // 45 V ± 5 % avalanche: onset 42.75 V at the bottom of the tolerance (tempco 0). A 27 V
+    // zener holds the switch at 16 + 27 + 0.8 = 43.8 V (arithmetic): the switch avalanches first.
+    let switch = "rating = \"40 V\"\nderating = \"100 %\"\navalanche = \"45 V\"\navalanche_tolerance = \"5 %\"\navalanche_energy = \"50 mJ\"\njunction_max = \"150 °C\"";
+    let r = analyse(&zener_design("27 V", switch, ""));
+    let c = check(&r, "coil", "clamp_below_avalanche");
+    assert_eq!(c.status, Status::Fail);
+    assert!(
+        close(c.value.unwrap() as f64, 43.8 / 42.75, 1e-5),
+        "{:?}",
+        c.value
+    );
+    assert!(
+        c.note.contains("avalanches from 42.75 V")
+            && c.note.contains("the lower of the two clamps clamps"),
+        "{}",
+        c.note
+    );
+    assert!(r.failed());
+    // A 22 V zener: 16 + 22 + 0.8 = 38.8 V, below the onset: it clamps (share 38.8/42.75).
+    let r = analyse(&zener_design("22 V", switch, ""));
+    let c = check(&r, "coil", "clamp_below_avalanche");
+    assert_eq!(c.status, Status::Pass);
+    assert!(
+        close(c.value.unwrap() as f64, 38.8 / 42.75, 1e-5),
+        "{:?}",
+        c.value
+    );
+}
+
+#[test]
+fn fields_a_kind_cannot_use_are_refused_and_unjudged_checks_say_so() {
+    let switch = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"";
+    // A voltage inside a plain diode clamp is an error at that field, naming the kinds that
+    // use it.
+    let text = design(
+        ("12 V", "12 V", "16 V"),
+        ("-40 °C", "85 °C", "10 K"),
+        RELAY_COIL,
+        switch,
+        "kind = \"diode\"\nvoltage = \"24 V\"",
+        "",
+    );
+    let e = analyse_text(&text, "c.toml", &Options::default())
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("driver[0].clamp.voltage")
+            && e.contains("does not use")
+            && e.contains("zener+diode"),
+        "{e}"
+    );
+    // The zener's average power without a switching rate: not judged, and says what it needs.
+    let r = analyse(&zener_design("24 V", switch, ""));
+    let c = check(&r, "coil", "breakdown_power");
+    assert_eq!(
+        (c.status, c.shown.as_deref()),
+        (Status::Warn, Some("not judged"))
+    );
+    assert!(c.note.contains("switching_rate"));
+}
+
+#[test]
+fn an_auto_zener_keeps_its_margin() {
+    // Fixed 0.8 V diode, datasheet zener with rz = 0 and no tempco: the worst peak is
+    // 16 + V_Z + 0.8 V (arithmetic). Derated limit 90 % of 60 V = 54 V. With the default 10 %
+    // margin, 48.6 V: V_Z ≤ 31.8 V, so the largest E24 value (IEC 60063) is 30 V; with 0 %,
+    // V_Z ≤ 37.2 V gives 36 V.
+    let switch = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"";
+    let r = analyse(&zener_design("auto", switch, ""));
+    let c = check(&r, "coil", "zener_sized");
+    assert!(close(c.value.unwrap() as f64, 30.0, 1e-6), "{c:?}");
+    assert!(
+        c.note.contains("10 %") && c.note.contains("46.80 V"),
+        "{}",
+        c.note
+    );
+    let zero = zener_design("auto", switch, "").replace(
+        "voltage = \"auto\"",
+        "voltage = \"auto\"\nvoltage_margin = \"0 %\"",
+    );
+    let c = check(&analyse(&zero), "coil", "zener_sized").clone();
+    assert!(close(c.value.unwrap() as f64, 36.0, 1e-6), "{c:?}");
+    // A margin without "auto" is an error at the margin.
+    let fixed = zener_design("24 V", switch, "").replace(
+        "voltage = \"24 V\"",
+        "voltage = \"24 V\"\nvoltage_margin = \"5 %\"",
+    );
+    let e = analyse_text(&fixed, "c.toml", &Options::default())
+        .unwrap_err()
+        .to_string();
+    assert!(e.contains("driver[0].clamp.voltage_margin"), "{e}");
 }

@@ -509,3 +509,30 @@ fn a_plot_with_non_finite_data_is_refused_at_once() {
         assert!(start.elapsed() < std::time::Duration::from_secs(1));
     }
 }
+
+#[test]
+fn parser_errors_speak_the_tools_words_and_name_the_table() {
+    // A bare number where a quantity belongs: the tool's own message with the field's unit.
+    let t = demo_text().replacen("inductance = \"350 mH\"", "inductance = 0.2", 1);
+    let (_, _, field, message) = input_error(&t);
+    assert_eq!(field, "driver[0].coil.inductance");
+    assert!(
+        message.contains("\"0.2\" has no unit") && message.contains("\"0.2 H\""),
+        "{message}"
+    );
+    assert!(!message.contains("invalid type"), "{message}");
+    // A missing table of the only driver is located with the driver's index.
+    let demo = demo_text();
+    let start = demo.find("[[driver]]").unwrap();
+    let second = start + 1 + demo[start + 1..].find("[[driver]]").unwrap();
+    let first_only = &demo[..second];
+    let end_pins = demo.find("# The 3.3 V microcontroller's pins.").unwrap();
+    let one = format!(
+        "{}{}",
+        first_only.replace(&first_only[first_only.find("[driver.clamp]").unwrap()..first_only.find("[driver.hold]").unwrap()], ""),
+        &demo[end_pins..]
+    )
+    .replace("sense_of = \"valve\"", "signal_min = \"0 V\"\nsignal_max = \"24 V\"\ntransient_min = \"-1 V\"\ntransient_max = \"30 V\"\ntransient_width = \"1 ms\"");
+    let (_, _, field, message) = input_error(&one);
+    assert_eq!(field, "driver[0].clamp", "{message}");
+}

@@ -239,10 +239,11 @@ impl Space {
             .map(|a| {
                 let (lo, hi) = self.range(*a);
                 format!(
-                    "{} {} … {}",
+                    "{} {} … {}{}",
                     axis_name(*a),
                     axis_value(*a, lo),
-                    axis_value(*a, hi)
+                    axis_value(*a, hi),
+                    axis_note(*a)
                 )
             })
             .collect()
@@ -262,6 +263,19 @@ pub fn axis_name(a: Axis) -> &'static str {
         Axis::BreakdownTol => "clamp voltage",
         Axis::AvalancheTemp => "switch",
         Axis::AvalancheTol => "avalanche",
+    }
+}
+
+/// What an axis's range means where its name alone could mislead, for the corner box.
+pub fn axis_note(a: Axis) -> &'static str {
+    match a {
+        Axis::DiodeSpread => {
+            " (the spread of the drop at the diode law's nominal temperature, a spread of IS that scales with absolute temperature; a fixed drop moves by it at every temperature)"
+        }
+        Axis::AvalancheTemp => {
+            " (the switch's junction, for its avalanche: what an open clamp or the switch's own clamping does)"
+        }
+        _ => "",
     }
 }
 

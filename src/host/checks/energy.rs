@@ -88,7 +88,7 @@ fn breakdown(run: &DriverRun, out: &mut Outcome) {
     if let Some(c) = figure_check(
         run,
         Metric::EnergyBreakdown,
-        "clamp_energy",
+        "breakdown_energy",
         &format!("energy into the {name} per switch-off"),
         Unit::Joule,
         e_lim,
@@ -104,23 +104,26 @@ fn breakdown(run: &DriverRun, out: &mut Outcome) {
         .figures
         .iter()
         .any(|f| f.hold.is_some_and(|h| h.zener_power > 0.0));
-    if d.switching_rate.is_some() || holds {
-        let title = format!("average power in the {name}");
-        if let Some(c) = figure_check(
-            run,
-            Metric::PowerBreakdown,
-            "clamp_power",
-            &title,
-            Unit::Watt,
-            p_lim,
-        ) {
-            let why = if holds {
-                "switch-offs at the stated rate, and it conducts in every PWM cycle while holding"
-            } else {
-                "switch-offs at the stated rate"
-            };
-            out.checks.push(c.noted(why));
-        }
+    let title = format!("average power in the {name}");
+    if !(d.switching_rate.is_some() || holds) {
+        out.checks.push(
+            Check::worded(&d.name, "breakdown_power", &title, Status::Warn, "not judged", Corner::Ties)
+                .noted("not judged: give the driver's switching_rate (switch-offs per second at most) to judge the average power"),
+        );
+    } else if let Some(c) = figure_check(
+        run,
+        Metric::PowerBreakdown,
+        "breakdown_power",
+        &title,
+        Unit::Watt,
+        p_lim,
+    ) {
+        let why = if holds {
+            "switch-offs at the stated rate, and it conducts in every PWM cycle while holding"
+        } else {
+            "switch-offs at the stated rate"
+        };
+        out.checks.push(c.noted(why));
     }
 }
 

@@ -95,7 +95,7 @@ const fn clamp(
 }
 
 const REQ: &str = "required";
-const OPT: &str = "not used";
+const OPT: &str = "optional";
 
 /// The whole design file, section by section.
 pub const FIELDS: &[Field] = &[
@@ -147,7 +147,7 @@ pub const FIELDS: &[Field] = &[
     f("driver.switch", "on_resistance", "resistance", OPT, "on-resistance; its conduction loss heats the switch"),
     clamp("kind", "one of the kinds below", REQ, "the suppression topology", &CLAMP_KINDS),
     clamp("diode", "\"silicon\", \"schottky\" or a fixed drop (\"0.7 V\")", "\"silicon\"", "the clamp diode", WITH_DIODE),
-    clamp("diode_spread", "voltage (±)", "0 V", "part-to-part spread of the diode's drop, an offset at every temperature", WITH_DIODE),
+    clamp("diode_spread", "voltage (±)", "0 V", "part-to-part spread of the diode's drop at the law's nominal temperature (a spread of IS: it scales with absolute temperature); a fixed drop moves by it at every temperature", WITH_DIODE),
     clamp("diode_thermal_resistance", "thermal resistance (K/W)", OPT, "the diode's junction to ambient, for its self-heating", WITH_DIODE),
     clamp("voltage", "voltage, or \"auto\" (zener+diode, switched-freewheel)", REQ, "the breakdown part's voltage at its test current (zener, TVS, varistor, switch clamp)", WITH_BREAKDOWN),
     clamp("voltage_margin", "percentage", "10 %", "with voltage = \"auto\": the margin kept below the switch's derated rating at the worst corner", SIZED_ZENER),

@@ -358,7 +358,9 @@ pub fn parse_file(reader: &Reader<'_>) -> Result<DesignFile, HostError> {
             })
             .or_else(|| {
                 let named = message.split('`').nth(1)?;
-                let table = reader.field_at(span.start);
+                let table = reader
+                    .field_at(span.start)
+                    .map(|t| indexed(reader.text, &t, span.start));
                 Some(match table {
                     // The span may be the unknown key itself, already recorded under its path.
                     Some(t) if t == named || t.ends_with(&std::format!(".{named}")) => t,
@@ -367,6 +369,67 @@ pub fn parse_file(reader: &Reader<'_>) -> Result<DesignFile, HostError> {
                 })
             })
             .unwrap_or_default();
-        reader.error(span, &field, message)
+        reader.error(span, &field, own_words(&message, &field))
     })
+}
+
+/// An array-of-tables path the parser reports without its index (`driver`, at the header of
+/// one of its tables) with the index of the table that holds `pos`: the count of its
+/// `[[name]]` headers before it.
+fn indexed(text: &str, table: &str, pos: usize) -> String {
+    if !matches!(table, "driver" | "supply" | "input") {
+        return table.to_string();
+    }
+    let header = std::format!("[[{table}]]");
+    let before = text
+        .get(..pos.saturating_add(header.len()).min(text.len()))
+        .unwrap_or(text);
+    let n = before
+        .lines()
+        .filter(|l| l.trim_start().starts_with(&header))
+        .count();
+    std::format!("{table}[{}]", n.saturating_sub(1))
+}
+
+/// The parser's message in the tool's own words where it has them: a bare number where a
+/// quantity with a unit belongs.
+fn own_words(message: &str, field: &str) -> String {
+    let bare = ["invalid type: floating point `", "invalid type: integer `"]
+        .iter()
+        .find_map(|p| message.strip_prefix(p))
+        .and_then(|rest| rest.split('`').next())
+        .filter(|_| message.ends_with("expected a string"));
+    let key = field.rsplit('.').next().unwrap_or(field);
+    let takes = fields::FIELDS
+        .iter()
+        .find(|f| f.name == key)
+        .map(|f| f.unit);
+    let symbol = takes.and_then(|t| {
+        [
+            ("voltage", "V"),
+            ("current", "A"),
+            ("resistance", "Ω"),
+            ("inductance", "H"),
+            ("capacitance", "F"),
+            ("time", "s"),
+            ("frequency", "Hz"),
+            ("percentage", "%"),
+            ("temperature", "°C"),
+            ("energy", "J"),
+            ("power", "W"),
+            ("ticks", "ticks"),
+        ]
+        .iter()
+        .find(|(w, _)| t.starts_with(w))
+        .map(|(_, sym)| *sym)
+    });
+    match (bare, takes, symbol) {
+        (Some(v), Some(t), Some(sym)) => std::format!(
+            "\"{v}\" has no unit; this field takes {t}: write it as a string with its unit, e.g. \"{v} {sym}\""
+        ),
+        (Some(v), _, _) => std::format!(
+            "\"{v}\" has no unit: write the value as a string with its unit (docs/design-file.md lists what each field takes)"
+        ),
+        _ => message.to_string(),
+    }
 }
