@@ -28,7 +28,11 @@ fn main() {
     let mc = time(
         &text,
         &Options {
-            monte_carlo: Some(Request { samples, seed: 1 }),
+            monte_carlo: Some(Request {
+                samples,
+                seed: 1,
+                distribution: Default::default(),
+            }),
         },
     );
     println!("demo design, vertex search and checks only: {:.3} s", plain);

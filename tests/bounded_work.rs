@@ -348,7 +348,7 @@ fn every_public_function_returns_promptly_on_hostile_input() {
                 [Amps::new(0.45).unwrap(), Amps::new(0.6).unwrap()],
             );
         }
-        let _ = Windows::from_rows(&[[u32::MAX, u32::MAX, Condition::FreewheelOpen.code()]])
+        let _ = Windows::from_rows(&[[u32::MAX, u32::MAX, Condition::ClampOpen.code()]])
             .classify(u32::MAX);
         let samples: Vec<Amps> = (0..64)
             .filter_map(|k| Amps::new(0.4 * (-(k as f32) * 0.05).exp()).ok())

@@ -490,12 +490,12 @@ fn circuit(s: &Spec, cond: Condition, rng: &mut Rng) -> Option<Circuit> {
         tsw: t(u()),
         kc: 1.0 - CLAMP_TOL + 2.0 * CLAMP_TOL * u(),
         ka: 1.0 - AV_TOL + 2.0 * AV_TOL * u(),
-        open: cond == Condition::FreewheelOpen,
+        open: cond == Condition::ClampOpen,
         zener_shorted: cond == Condition::ZenerShorted,
     };
     match cond {
         Condition::CoilOpen => None,
-        Condition::FreewheelOpen if matches!(s.kind, Kind::Avalanche) => None,
+        Condition::ClampOpen if matches!(s.kind, Kind::Avalanche) => None,
         Condition::ZenerShorted if !matches!(s.kind, Kind::Zener(..) | Kind::Switched(..)) => None,
         _ => Some(c),
     }
@@ -605,7 +605,7 @@ fn run(s: &Spec, samples: usize, seed: u64) -> (Tally, Tally, Vec<(bool, Option<
             let table = compensated(&d, s, &lm, &timing);
             let detectable =
                 |c: Condition| rep.faults.iter().any(|x| x.condition == c && x.detectable);
-            open_detect.push((detectable(Condition::FreewheelOpen), None));
+            open_detect.push((detectable(Condition::ClampOpen), None));
             // Open-clamp readings (all, caught in a separating cell).
             let mut comp_open = (0u32, 0u32);
             for cond in Condition::ALL {
@@ -628,11 +628,11 @@ fn run(s: &Spec, samples: usize, seed: u64) -> (Tally, Tally, Vec<(bool, Option<
                     // window there shares no tick with the healthy one.
                     let separated = table.cell(mv, ua).is_some_and(|w| cell_separates(w, cond));
                     judge(&mut t, cond, v, separated);
-                    if cond == Condition::FreewheelOpen {
+                    if cond == Condition::ClampOpen {
                         comp_open.0 += 1;
                         comp_open.1 += u32::from(separated && t.misses + t.wrong == 0);
                     }
-                    if cond == Condition::Healthy || cond == Condition::FreewheelOpen {
+                    if cond == Condition::Healthy || cond == Condition::ClampOpen {
                         comp.add(t);
                     }
                 }
@@ -749,7 +749,7 @@ fn proposed_comparator_holds_on_the_independent_circuits() {
                 s.name,
                 h.law(s, h.i0).1
             );
-            if let Some(o) = circuit(s, Condition::FreewheelOpen, &mut rng) {
+            if let Some(o) = circuit(s, Condition::ClampOpen, &mut rng) {
                 assert!(
                     o.law(s, o.i0).1 > th * 1.02,
                     "{}: an open clamp stays below the threshold",
@@ -765,7 +765,7 @@ fn proposed_comparator_holds_on_the_independent_circuits() {
         assert!(
             rep.faults
                 .iter()
-                .any(|f| f.condition == Condition::FreewheelOpen && f.detectable),
+                .any(|f| f.condition == Condition::ClampOpen && f.detectable),
             "{}: not detectable at {:?}",
             s.name,
             p.slowest_tick

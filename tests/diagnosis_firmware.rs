@@ -96,7 +96,7 @@ fn tick_separations_count_rounding_and_jitter() {
         let open = rep
             .faults
             .iter()
-            .find(|s| s.condition == Condition::FreewheelOpen)
+            .find(|s| s.condition == Condition::ClampOpen)
             .unwrap();
         assert_eq!((open.window.lo, open.window.hi), win(t_o));
         assert_eq!(open.detectable, win(t_o).1 < win(t_h).0);
@@ -113,7 +113,7 @@ fn tick_separations_count_rounding_and_jitter() {
     let open = rep
         .faults
         .iter()
-        .find(|s| s.condition == Condition::FreewheelOpen)
+        .find(|s| s.condition == Condition::ClampOpen)
         .unwrap();
     assert!(!open.detectable, "{open:?}");
 }
@@ -124,12 +124,12 @@ fn ambiguous_verdicts_name_their_candidates() {
     let w = Windows::from_rows(&rows);
     match w.classify(50) {
         Verdict::Ambiguous(c) => {
-            assert!(c.contains(Condition::FreewheelOpen) && c.contains(Condition::ShortedTurns));
+            assert!(c.contains(Condition::ClampOpen) && c.contains(Condition::ShortedTurns));
             assert_eq!(c.count(), 2);
             assert_eq!(
                 c,
                 Candidates::NONE
-                    .with(Condition::FreewheelOpen)
+                    .with(Condition::ClampOpen)
                     .with(Condition::ShortedTurns)
             );
         }
@@ -215,7 +215,7 @@ fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
     );
     assert_eq!(
         comp.classify(24_000, 430_000, tick(open)),
-        Verdict::Fault(Condition::FreewheelOpen)
+        Verdict::Fault(Condition::ClampOpen)
     );
     // The resistance limit: no healthy winding reads above R_max·(1 + ε_V)/(1 − ε_I).
     let lim = d.resistance_limit(&acc).unwrap();
@@ -238,7 +238,7 @@ fn learning_a_units_own_window() {
     // A faulty first reading is refused; learning does not start from it.
     assert_eq!(
         l.observe(30),
-        Reading::Refused(Verdict::Fault(Condition::FreewheelOpen))
+        Reading::Refused(Verdict::Fault(Condition::ClampOpen))
     );
     let mut learned = None;
     for (k, r) in readings.iter().enumerate() {
@@ -255,7 +255,7 @@ fn learning_a_units_own_window() {
     assert_eq!(l.observe(300), Reading::Departure); // healthy for the design, not for this unit
     assert_eq!(
         l.observe(40),
-        Reading::Fault(Verdict::Fault(Condition::FreewheelOpen))
+        Reading::Fault(Verdict::Fault(Condition::ClampOpen))
     );
     // Persisted and restored; a stored window outside the design's healthy one is refused.
     let bytes = win.to_bytes();
@@ -417,7 +417,7 @@ fn proposed_comparator_by_hand() {
     assert!(rep
         .faults
         .iter()
-        .any(|f| f.condition == Condition::FreewheelOpen && f.detectable));
+        .any(|f| f.condition == Condition::ClampOpen && f.detectable));
     // A switch avalanching at 46 V leaves 44.4 V ± 2 % room, not ± 5 %: none then; a bad
     // tolerance is a typed error naming it.
     let close = Design {

@@ -109,7 +109,7 @@ fn measured(cond: Condition, l: f64, r20: f64, vs: f64, tw: f64, tcl: f64) -> f6
     let d = move |i: f64| v64(&si, i, tk);
     let z = |i: f64| VZ + RZ * (i - IZT);
     let g: Box<dyn Fn(f64) -> f64> = match cond {
-        Condition::FreewheelOpen => Box::new(move |i| r * i + V_AV - vs),
+        Condition::ClampOpen => Box::new(move |i| r * i + V_AV - vs),
         Condition::ZenerShorted => Box::new(move |i| r * i + d(i)),
         _ => Box::new(move |i| r * i + z(i) + d(i)),
     };
@@ -149,7 +149,7 @@ fn classifier_gets_ode_generated_measurements_right() {
     let detectable = |c: Condition| seps.iter().any(|s| s.condition == c && s.detectable);
     for cond in [
         Condition::Healthy,
-        Condition::FreewheelOpen,
+        Condition::ClampOpen,
         Condition::ZenerShorted,
         Condition::ShortedTurns,
         Condition::CoilTooHot,
@@ -193,7 +193,7 @@ fn classifier_gets_ode_generated_measurements_right() {
     // An open freewheeling diode (avalanche at 60 V) is faster than the 24 V zener clamp.
     let fo = seps
         .iter()
-        .find(|s| s.condition == Condition::FreewheelOpen)
+        .find(|s| s.condition == Condition::ClampOpen)
         .unwrap();
     assert!(fo.window.max.value() < healthy.max.value());
 }
@@ -377,7 +377,7 @@ fn winding_temperature_from_on_current() {
 #[test]
 fn history_requires_consecutive_faults() {
     let mut h: VerdictHistory<4> = VerdictHistory::new();
-    let open = Verdict::Fault(Condition::FreewheelOpen);
+    let open = Verdict::Fault(Condition::ClampOpen);
     for _ in 0..3 {
         h.push(open);
     }

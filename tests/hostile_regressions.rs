@@ -29,7 +29,7 @@ fn case_1_window_entries_at_u32_max_do_not_overflow() {
     let e = Entry {
         lo: u32::MAX,
         hi: u32::MAX,
-        condition: Condition::FreewheelOpen,
+        condition: Condition::ClampOpen,
     };
     let w = Windows::from_entries(
         [
@@ -42,16 +42,10 @@ fn case_1_window_entries_at_u32_max_do_not_overflow() {
         ],
         1,
     );
-    assert_eq!(
-        w.classify(u32::MAX),
-        Verdict::Fault(Condition::FreewheelOpen)
-    );
+    assert_eq!(w.classify(u32::MAX), Verdict::Fault(Condition::ClampOpen));
     assert_eq!(w.classify(0), Verdict::Unexplained);
     let w = Windows::from_rows(&[[u32::MAX, u32::MAX, 1]]);
-    assert_eq!(
-        w.classify(u32::MAX),
-        Verdict::Fault(Condition::FreewheelOpen)
-    );
+    assert_eq!(w.classify(u32::MAX), Verdict::Fault(Condition::ClampOpen));
     assert_eq!(w.classify(u32::MAX - 1), Verdict::Unexplained);
 }
 

@@ -45,6 +45,7 @@ fn every_report_matches_the_schema() {
             Some(Request {
                 samples: 20,
                 seed: 3,
+                distribution: kickguard::host::Distribution::Normal { sigmas: 3 },
             }),
         ] {
             let v = report_json(path, mc);

@@ -15,9 +15,9 @@
 //! grid over both never beats the reported worst injection either.
 
 use kickguard::host::checks::inputs;
-use kickguard::host::corners::Sense;
+use kickguard::host::corners::{Axis, Rng, Sense};
 use kickguard::host::engine::run_driver;
-use kickguard::host::montecarlo::{all_metrics, beyond, spreads, Request};
+use kickguard::host::montecarlo::{all_metrics, beyond, spreads, Distribution, Request};
 use kickguard::host::{analyse_text, read_board, Options};
 use kickguard::input::Pin;
 use kickguard::units::{Ohms, Temperature, Volts};
@@ -87,6 +87,7 @@ fn monte_carlo_never_beats_the_vertex_search() {
                 Request {
                     samples: n,
                     seed: 0x5eed + k as u64,
+                    distribution: Distribution::Uniform,
                 },
                 &metrics,
             )
@@ -116,9 +117,11 @@ fn the_reported_checks_carry_the_same_worst_values() {
     // The report's Monte Carlo spread (the figures its checks hold) agrees: nothing beyond.
     for path in DESIGNS {
         let opts = Options {
+            // Normal (±range = 3σ, truncated): the report's other distribution.
             monte_carlo: Some(Request {
                 samples: 300,
                 seed: 11,
+                distribution: Distribution::Normal { sigmas: 3 },
             }),
         };
         let r = analyse_text(&std::fs::read_to_string(path).unwrap(), path, &opts).unwrap();
@@ -190,4 +193,33 @@ fn input_injection_is_worst_at_a_pin_corner() {
         }
     }
     assert!(grid_points > 800);
+}
+
+#[test]
+fn normal_samples_stay_in_the_box_with_the_truncated_spread() {
+    // The variance of a normal truncated to ±kσ is σ²·(1 − 2k·φ(k)/(2Φ(k) − 1)) (truncated
+    // normal distribution, e.g. Johnson, Kotz & Balakrishnan, "Continuous Univariate
+    // Distributions", vol. 1 — from memory): for k = 3, φ(3) = 0.0044318, 2Φ(3) − 1 = 0.9973,
+    // so the standard deviation is σ·0.98658; for k = 1, 0.53956 (φ(1) = 0.24197,
+    // 2Φ(1) − 1 = 0.68269).
+    let board = read_board(&std::fs::read_to_string(DESIGNS[0]).unwrap(), DESIGNS[0]).unwrap();
+    let run = run_driver(&board, &board.drivers[0]).unwrap();
+    let (lo, hi) = run.space.range(Axis::Supply);
+    let half = (hi - lo) as f64 / 2.0;
+    for (k, factor) in [(3u8, 0.98658f64), (1, 0.53956)] {
+        let mut rng = Rng::new(7);
+        let n = 40_000;
+        let xs: Vec<f64> = (0..n)
+            .map(|_| run.space.sample_normal(&mut rng, k).at(Axis::Supply) as f64)
+            .collect();
+        assert!(xs.iter().all(|x| *x >= lo as f64 && *x <= hi as f64));
+        let mean = xs.iter().sum::<f64>() / n as f64;
+        let sd = (xs.iter().map(|x| (x - mean).powi(2)).sum::<f64>() / n as f64).sqrt();
+        let want = half / k as f64 * factor;
+        assert!((sd - want).abs() < 0.02 * want, "k {k}: sd {sd} vs {want}");
+        assert!(
+            (mean - (lo + hi) as f64 / 2.0).abs() < 0.02 * half,
+            "k {k}: mean {mean}"
+        );
+    }
 }

@@ -183,7 +183,7 @@ static WINDOWS: kickguard::diagnosis::Windows = {
     Windows::from_entries(
         [
             e(10, Healthy),
-            e(110, FreewheelOpen),
+            e(110, ClampOpen),
             e(210, ZenerShorted),
             e(410, CoilOpen),
             e(510, ShortedTurns),

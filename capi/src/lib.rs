@@ -100,7 +100,7 @@ pub const KG_REASON_OVERFLOW: i32 = 14;
 const _: () = {
     use kickguard::Reason as R;
     assert!(KG_CONDITION_HEALTHY as u32 == Condition::Healthy.code());
-    assert!(KG_CONDITION_CLAMP_OPEN as u32 == Condition::FreewheelOpen.code());
+    assert!(KG_CONDITION_CLAMP_OPEN as u32 == Condition::ClampOpen.code());
     assert!(KG_CONDITION_ZENER_SHORTED as u32 == Condition::ZenerShorted.code());
     assert!(KG_CONDITION_COIL_OPEN as u32 == Condition::CoilOpen.code());
     assert!(KG_CONDITION_SHORTED_TURNS as u32 == Condition::ShortedTurns.code());

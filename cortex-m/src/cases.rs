@@ -85,12 +85,12 @@ fn case_verdict() -> Result<f32, Error> {
     use kickguard::diagnosis::{Condition, Verdict};
     let mut e = [Entry::EMPTY; MAX_WINDOWS];
     e[0] = Entry { lo: 400, hi: 600, condition: Condition::Healthy };
-    e[1] = Entry { lo: 100, hi: 300, condition: Condition::FreewheelOpen };
+    e[1] = Entry { lo: 100, hi: 300, condition: Condition::ClampOpen };
     e[2] = Entry { lo: 250, hi: 350, condition: Condition::ShortedTurns };
     let w = Windows::from_entries(e, 3);
     let code = |v: Verdict| match v {
         Verdict::Healthy => 1.0,
-        Verdict::Fault(Condition::FreewheelOpen) => 2.0,
+        Verdict::Fault(Condition::ClampOpen) => 2.0,
         Verdict::Fault(_) => 3.0,
         Verdict::Ambiguous(_) => 4.0,
         Verdict::Unexplained => 5.0,

@@ -7,7 +7,9 @@
 //! and the files an earlier run wrote into the output directory are removed.
 
 use clap::{Parser, Subcommand};
-use kickguard::host::{analyse_file, clear_outputs, output, write_outputs, MonteCarlo, Options};
+use kickguard::host::{
+    analyse_file, clear_outputs, output, write_outputs, Distribution, MonteCarlo, Options,
+};
 use std::path::PathBuf;
 use std::process::ExitCode;
 
@@ -38,6 +40,12 @@ enum Command {
         /// Seed of the Monte Carlo generator (needs --monte-carlo; the same seed gives the same samples).
         #[arg(long, requires = "monte_carlo")]
         seed: Option<u64>,
+        /// How the Monte Carlo samples spread over each axis: uniform, or normal with each ± range read as --sigmas standard deviations and truncated to it.
+        #[arg(long, requires = "monte_carlo", value_parser = ["uniform", "normal"], default_value = "uniform")]
+        distribution: String,
+        /// With --distribution normal: how many standard deviations a ± range is (1 … 6).
+        #[arg(long, requires = "monte_carlo", default_value_t = 3, value_parser = clap::value_parser!(u8).range(1..=6))]
+        sigmas: u8,
         /// Print the JSON report instead of the text.
         #[arg(long)]
         json: bool,
@@ -79,12 +87,19 @@ fn main() -> ExitCode {
         out,
         monte_carlo,
         seed,
+        distribution,
+        sigmas,
         json,
     } = cli.command;
     let options = Options {
         monte_carlo: monte_carlo.map(|samples| MonteCarlo {
             samples,
             seed: seed.unwrap_or(1),
+            distribution: if distribution == "normal" {
+                Distribution::Normal { sigmas }
+            } else {
+                Distribution::Uniform
+            },
         }),
     };
     let report = match analyse_file(&design, &options) {

@@ -160,7 +160,7 @@ impl Windows {
     /// use kickguard::diagnosis::{Condition, Verdict, Windows};
     /// const ROWS: [[u32; 3]; 2] = [[29, 74, 0], [16, 45, 1]];
     /// let w = Windows::from_rows(&ROWS);
-    /// assert_eq!(w.classify(20), Verdict::Fault(Condition::FreewheelOpen));
+    /// assert_eq!(w.classify(20), Verdict::Fault(Condition::ClampOpen));
     /// ```
     pub fn from_rows(rows: &[[u32; 3]]) -> Self {
         let mut entries = [Entry::EMPTY; MAX_WINDOWS];
@@ -214,10 +214,10 @@ impl Windows {
     /// use kickguard::diagnosis::{Condition, Verdict};
     /// let mut e = [Entry::EMPTY; MAX_WINDOWS];
     /// e[0] = Entry { lo: 40, hi: 60, condition: Condition::Healthy };
-    /// e[1] = Entry { lo: 10, hi: 25, condition: Condition::FreewheelOpen };
+    /// e[1] = Entry { lo: 10, hi: 25, condition: Condition::ClampOpen };
     /// let w = Windows::from_entries(e, 2);
     /// assert_eq!(w.classify(50), Verdict::Healthy);
-    /// assert_eq!(w.classify(12), Verdict::Fault(Condition::FreewheelOpen));
+    /// assert_eq!(w.classify(12), Verdict::Fault(Condition::ClampOpen));
     /// assert_eq!(w.classify(30), Verdict::Unexplained);
     /// ```
     #[inline]

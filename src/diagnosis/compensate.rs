@@ -276,7 +276,7 @@ impl Design {
                 (self.clamp, 1.0, matches!(self.clamp, Clamp::Avalanche(_)))
             }
             Condition::ShortedTurns => (self.clamp, fl, matches!(self.clamp, Clamp::Avalanche(_))),
-            Condition::FreewheelOpen => match self.clamp {
+            Condition::ClampOpen => match self.clamp {
                 Clamp::Avalanche(_) => return Ok(None),
                 _ => (Clamp::Avalanche(self.switch_avalanche), 1.0, true),
             },

@@ -86,7 +86,7 @@ impl<const N: usize> VerdictHistory<N> {
     /// use kickguard::diagnosis::history::VerdictHistory;
     /// use kickguard::diagnosis::{Condition, Verdict};
     /// let mut h: VerdictHistory<8> = VerdictHistory::new();
-    /// let open = Verdict::Fault(Condition::FreewheelOpen);
+    /// let open = Verdict::Fault(Condition::ClampOpen);
     /// h.push(open);
     /// h.push(Verdict::Healthy);
     /// h.push(open);
@@ -116,7 +116,7 @@ mod tests {
 
     #[test]
     fn ring_buffer_keeps_the_newest_n() {
-        let open = Verdict::Fault(Condition::FreewheelOpen);
+        let open = Verdict::Fault(Condition::ClampOpen);
         let mut h: VerdictHistory<3> = VerdictHistory::new();
         for v in [open, open, Verdict::Healthy, open, open] {
             h.push(v);

@@ -53,7 +53,7 @@ pub enum Condition {
     /// The clamp path has failed open: the freewheeling diode, or the zener or TVS (in a zener +
     /// diode clamp either part opening breaks the same series path; a TVS alone is the path),
     /// so the switch avalanches.
-    FreewheelOpen,
+    ClampOpen,
     /// The zener of a zener + diode clamp has failed short.
     ZenerShorted,
     /// The coil winding is open: no current.
@@ -70,7 +70,7 @@ impl Condition {
     pub const fn code(self) -> u32 {
         match self {
             Condition::Healthy => 0,
-            Condition::FreewheelOpen => 1,
+            Condition::ClampOpen => 1,
             Condition::ZenerShorted => 2,
             Condition::CoilOpen => 3,
             Condition::ShortedTurns => 4,
@@ -82,7 +82,7 @@ impl Condition {
     pub const fn from_code(code: u32) -> Option<Condition> {
         Some(match code {
             0 => Condition::Healthy,
-            1 => Condition::FreewheelOpen,
+            1 => Condition::ClampOpen,
             2 => Condition::ZenerShorted,
             3 => Condition::CoilOpen,
             4 => Condition::ShortedTurns,
@@ -94,7 +94,7 @@ impl Condition {
     /// Every condition, healthy first.
     pub const ALL: [Condition; 6] = [
         Condition::Healthy,
-        Condition::FreewheelOpen,
+        Condition::ClampOpen,
         Condition::ZenerShorted,
         Condition::CoilOpen,
         Condition::ShortedTurns,

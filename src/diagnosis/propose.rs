@@ -80,7 +80,7 @@ impl Design {
         }
         let (Some(h), Some(a)) = (
             self.peak_range(Condition::Healthy)?,
-            self.peak_range(Condition::FreewheelOpen)?,
+            self.peak_range(Condition::ClampOpen)?,
         ) else {
             return Ok(None);
         };
@@ -92,7 +92,7 @@ impl Design {
         let threshold = Volts::new(th)?;
         let m = Measurement::SwitchAbove { threshold };
         let open = self
-            .window(Condition::FreewheelOpen, &m)?
+            .window(Condition::ClampOpen, &m)?
             .ok_or(Error::new("clamp", Reason::Inconsistent))?;
         let usable = open.min.value() * (1.0 - timing.guard.value());
         if !(usable > 0.0) {

@@ -278,7 +278,7 @@ impl Design {
         Ok(match cond {
             Condition::Healthy => Some((self.clamp, 1.0, 1.0, tmin, tmax, own_avalanche)),
             // An active clamp's drain–gate zener open leaves the switch to avalanche too.
-            Condition::FreewheelOpen => match self.clamp {
+            Condition::ClampOpen => match self.clamp {
                 Clamp::Avalanche(_) => None,
                 _ => Some((av, 1.0, 1.0, tmin, tmax, true)),
             },

@@ -220,6 +220,55 @@ impl Space {
         p
     }
 
+    /// A point drawn normally inside the box: on each axis about its middle with the
+    /// half-range as `sigmas` standard deviations (Box–Muller), truncated to the range by
+    /// redrawing (at most 64 draws an axis, each inside with probability ≥ 68 % for k ≥ 1; the
+    /// middle after 64 misses, a chance below 1e-31).
+    pub fn sample_normal(&self, rng: &mut Rng, sigmas: u8) -> Point {
+        let k = f32::from(sigmas.max(1));
+        let mut p = Point(self.lo);
+        for (j, v) in p.0.iter_mut().enumerate() {
+            let (lo, hi) = (
+                self.lo.get(j).copied().unwrap_or(0.0),
+                self.hi.get(j).copied().unwrap_or(0.0),
+            );
+            let (mid, half) = ((lo + hi) / 2.0, (hi - lo) / 2.0);
+            let mut z = 0.0f32;
+            for _ in 0..64 {
+                let u1 = 1.0 - rng.unit();
+                let u2 = rng.unit();
+                let x = libm::sqrtf(-2.0 * libm::logf(u1))
+                    * libm::cosf(2.0 * core::f32::consts::PI * u2);
+                if x.abs() <= k {
+                    z = x;
+                    break;
+                }
+            }
+            *v = (mid + half * z / k).clamp(lo.min(hi), hi.max(lo));
+        }
+        p
+    }
+
+    /// The corner as numbers, the axes that vary.
+    pub fn values(&self, p: &Point) -> Vec<crate::host::checks::AxisValue> {
+        self.varying()
+            .iter()
+            .map(|a| axis_value_of(*a, p.at(*a)))
+            .collect()
+    }
+
+    /// Every axis that varies as numbers: (machine name, lowest, highest, unit).
+    pub fn ranges(&self) -> Vec<(&'static str, f32, f32, &'static str)> {
+        self.varying()
+            .iter()
+            .map(|a| {
+                let (lo, hi) = self.range(*a);
+                let (name, unit) = axis_machine(*a);
+                (name, lo, hi, unit)
+            })
+            .collect()
+    }
+
     /// The corner in words, naming only the axes that vary.
     pub fn describe(&self, p: &Point) -> String {
         let parts: Vec<String> = self
@@ -289,6 +338,32 @@ pub fn axis_value(a: Axis, v: f32) -> String {
         }
         Axis::Inductance | Axis::Resistance | Axis::BreakdownTol | Axis::AvalancheTol => pct(v),
         Axis::DiodeSpread => format!("{:+.0} mV", v * 1e3),
+    }
+}
+
+/// An axis's machine name and unit, for the JSON.
+pub fn axis_machine(a: Axis) -> (&'static str, &'static str) {
+    match a {
+        Axis::Supply => ("supply", "V"),
+        Axis::Winding => ("winding_temperature", "°C"),
+        Axis::Inductance => ("inductance_scale", "1"),
+        Axis::Resistance => ("resistance_scale", "1"),
+        Axis::DiodeTemp => ("diode_temperature", "°C"),
+        Axis::DiodeSpread => ("diode_drop_shift", "V"),
+        Axis::BreakdownTemp => ("clamp_part_temperature", "°C"),
+        Axis::BreakdownTol => ("clamp_voltage_scale", "1"),
+        Axis::AvalancheTemp => ("switch_temperature", "°C"),
+        Axis::AvalancheTol => ("avalanche_scale", "1"),
+    }
+}
+
+/// One axis value as numbers.
+pub fn axis_value_of(a: Axis, v: f32) -> crate::host::checks::AxisValue {
+    let (name, unit) = axis_machine(a);
+    crate::host::checks::AxisValue {
+        name,
+        value: v,
+        unit,
     }
 }
 

@@ -38,7 +38,7 @@ use std::path::{Path, PathBuf};
 use std::string::{String, ToString};
 use std::vec::Vec;
 
-pub use montecarlo::Request as MonteCarlo;
+pub use montecarlo::{Distribution, Request as MonteCarlo};
 
 /// Why the configuration step could not produce a result.
 #[derive(Debug, Clone, PartialEq)]
@@ -252,7 +252,9 @@ pub fn analyse_file(path: &Path, options: &Options) -> Result<report::Report, Ho
 }
 
 /// Every output of a report, as (file name, contents): `report.txt`, `report.json`,
-/// `kickguard_config.rs`, `kickguard_config.h` and one `plot_<module>.svg` per driver.
+/// `kickguard_config.rs`, `kickguard_config.h`, and per driver `plot_<module>.svg` (the worst
+/// switch-voltage corner) and `plot_<module>_release.svg` (the worst release corner, with a
+/// must-release voltage).
 ///
 /// # Errors
 /// A plot that cannot be drawn, or JSON that cannot be written.
@@ -274,8 +276,8 @@ pub fn render_outputs(r: &report::Report) -> Result<Vec<(String, String)>, HostE
         ("kickguard_config.h".to_string(), output::c::render(r)),
     ];
     for d in &r.drivers {
-        if let Some(p) = &d.plot {
-            let name = std::format!("plot_{}.svg", p.module);
+        for p in &d.plots {
+            let name = output::svg::file_name(p);
             files.push((name.clone(), output::svg::render(p).map_err(io(&name))?));
         }
     }

@@ -1,7 +1,10 @@
-//! Monte Carlo inside each driver's box: points drawn uniformly on every axis at once
-//! ([`crate::host::corners::Space::sample`], a fixed-seed xorshift64* generator), the same
+//! Monte Carlo inside each driver's box: points drawn on every axis at once, uniformly
+//! ([`crate::host::corners::Space::sample`]) or normally with each axis's half-range read as
+//! kσ about its middle and truncated to the box ([`crate::host::corners::Space::sample_normal`];
+//! how many teams read a ± tolerance), from a fixed-seed xorshift64* generator; the same
 //! figures as at the vertices, and per figure the smallest, median and largest sample beside
-//! the vertex search's worst — with a count of samples that beat it, which must be zero.
+//! the vertex search's worst — with a count of samples that beat it, which must be zero (a
+//! truncated distribution stays inside the box, so the vertex worst bounds it too).
 //!
 //! Work: one evaluation of every figure per sample (a bounded number of integrations each);
 //! memory: one f32 per sample and figure.
@@ -14,6 +17,20 @@ use super::figures::{figures_with, Needs};
 use super::HostError;
 use std::vec::Vec;
 
+/// How the samples spread over each axis.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub enum Distribution {
+    /// Uniform over each axis's range.
+    #[default]
+    Uniform,
+    /// Normal about each axis's middle, its half-range being `sigmas` standard deviations,
+    /// truncated to the range.
+    Normal {
+        /// k: the half-range in standard deviations (1 … 6).
+        sigmas: u8,
+    },
+}
+
 /// A Monte Carlo run's request.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub struct Request {
@@ -21,6 +38,8 @@ pub struct Request {
     pub samples: u32,
     /// The generator's seed.
     pub seed: u64,
+    /// How the samples spread.
+    pub distribution: Distribution,
 }
 
 /// Whether `v` is worse than the vertex worst `w` beyond the tolerance.
@@ -67,7 +86,10 @@ pub fn spreads(
         },
     );
     for _ in 0..req.samples {
-        let p = run.space.sample(&mut rng);
+        let p = match req.distribution {
+            Distribution::Uniform => run.space.sample(&mut rng),
+            Distribution::Normal { sigmas } => run.space.sample_normal(&mut rng, sigmas),
+        };
         let f =
             figures_with(&cx, &p, needs).map_err(|e| refused(board, &run.d, &run.space, &p, e))?;
         for (m, v) in metrics.iter().zip(values.iter_mut()) {

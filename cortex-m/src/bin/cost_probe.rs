@@ -45,7 +45,7 @@ const fn entry(lo: u32, condition: Condition) -> Entry {
 static WINDOWS: Windows = Windows::from_entries(
     [
         entry(10, Condition::Healthy),
-        entry(110, Condition::FreewheelOpen),
+        entry(110, Condition::ClampOpen),
         entry(210, Condition::ZenerShorted),
         entry(410, Condition::CoilOpen),
         entry(510, Condition::ShortedTurns),
@@ -139,8 +139,8 @@ probe!(
 );
 probe!(probe_history, {
     let mut h: VerdictHistory<4> = VerdictHistory::new();
-    h.push(bb(Verdict::Fault(Condition::FreewheelOpen)));
-    h.confirmed(Verdict::Fault(Condition::FreewheelOpen), bb(3))
+    h.push(bb(Verdict::Fault(Condition::ClampOpen)));
+    h.confirmed(Verdict::Fault(Condition::ClampOpen), bb(3))
 });
 probe!(
     probe_drop_typical,

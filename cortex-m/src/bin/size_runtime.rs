@@ -40,7 +40,7 @@ static WINDOWS: Windows = {
     e[1] = Entry {
         lo: 100,
         hi: 300,
-        condition: Condition::FreewheelOpen,
+        condition: Condition::ClampOpen,
     };
     Windows::from_entries(e, 2)
 };
@@ -100,7 +100,7 @@ fn run() -> Result<f32, Error> {
     let w = bb(&WINDOWS);
     let mut h: VerdictHistory<4> = VerdictHistory::new();
     h.push(w.classify(bb(250)));
-    acc += h.confirmed(Verdict::Fault(Condition::FreewheelOpen), bb(3)) as u32 as f32;
+    acc += h.confirmed(Verdict::Fault(Condition::ClampOpen), bb(3)) as u32 as f32;
     acc += fit_decay(bb(&SAMPLES[..]), kickguard::Seconds::new(bb(1e-4))?)?
         .tau
         .value();

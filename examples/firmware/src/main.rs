@@ -34,7 +34,7 @@ fn main() {
     let windows = Windows::from_rows(&config::valve::DIAG_1_WINDOWS);
     let needed = config::valve::FAULT_CONFIRMATIONS as usize;
     let mut history: VerdictHistory<8> = VerdictHistory::new();
-    let open = Verdict::Fault(Condition::FreewheelOpen);
+    let open = Verdict::Fault(Condition::ClampOpen);
     for measured_ticks in [0u32, 0, 31, 30, 29] {
         let v = windows.classify(measured_ticks);
         history.push(v);

@@ -34,7 +34,7 @@ pub struct Window {
 pub fn condition_words(c: Condition) -> &'static str {
     match c {
         Condition::Healthy => "healthy",
-        Condition::FreewheelOpen => "clamp path open",
+        Condition::ClampOpen => "clamp path open",
         Condition::ZenerShorted => "zener shorted",
         Condition::CoilOpen => "coil open",
         Condition::ShortedTurns => "shorted turns",

@@ -35,10 +35,19 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) {
         Unit::Joule,
         None,
     ) {
-        out.checks.push(c.noted(format!(
-            "½·L·I₀²; the decay puts it into {} and the coil's own resistance",
-            d.clamp.absorbers()
-        )));
+        let across_switch = matches!(
+            d.clamp,
+            ClampBoard::TvsAcrossSwitch(_) | ClampBoard::SwitchClamp { .. } | ClampBoard::Avalanche
+        );
+        let note = if across_switch {
+            format!("½·L·I₀²; the decay puts it into {} and the coil's own resistance, and the supply adds V_s·Q while the clamp across the switch conducts, so {} takes more than is stored", d.clamp.absorbers(), d.clamp.absorbers())
+        } else {
+            format!(
+                "½·L·I₀²; the decay puts it into {} and the coil's own resistance",
+                d.clamp.absorbers()
+            )
+        };
+        out.checks.push(c.noted(note));
     }
     let any = |m: Metric| {
         run.figures

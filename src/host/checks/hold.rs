@@ -27,7 +27,9 @@ fn infeasible(run: &DriverRun, i_hold: f32, out: &mut Outcome) {
     let d = &run.d;
     let at = Metric::HoldDuty
         .first_missing(d, &run.points, &run.figures)
-        .map_or(Corner::Ties, |p| Corner::At(run.space.describe(&p)));
+        .map_or(Corner::Ties, |p| {
+            Corner::At(run.space.describe(&p), run.space.values(&p))
+        });
     let c = Check::worded(
         &d.name,
         "hold_duty",
@@ -179,7 +181,7 @@ fn pull_in(
                 "time to the pull-in current",
                 Status::Fail,
                 "never reached",
-                Corner::At(run.space.describe(&p)),
+                Corner::At(run.space.describe(&p), run.space.values(&p)),
             )
             .noted(format!(
                 "the supply cannot drive {:.0} mA through the coil at this corner",

@@ -34,7 +34,21 @@ pub fn pin_corners(board: &Board, p: &InputsBoard) -> [(Volts, Temperature); 4] 
 
 /// Words for a pin corner.
 fn corner_words(c: &(Volts, Temperature)) -> Corner {
-    Corner::At(format!("pin supply {}, microcontroller {}", c.0, c.1))
+    Corner::At(
+        format!("pin supply {}, microcontroller {}", c.0, c.1),
+        std::vec![
+            super::AxisValue {
+                name: "pin_supply",
+                value: c.0.value(),
+                unit: "V",
+            },
+            super::AxisValue {
+                name: "microcontroller_temperature",
+                value: c.1.celsius(),
+                unit: "°C",
+            },
+        ],
+    )
 }
 
 /// The signal range of an input.

@@ -20,7 +20,7 @@ pub mod timing;
 pub mod verdict;
 
 pub use metric::Metric;
-pub use verdict::{Bound, Check, Corner, Limit, Spread, Status, Unit, MC_TOLERANCE};
+pub use verdict::{AxisValue, Bound, Check, Corner, Limit, Spread, Status, Unit, MC_TOLERANCE};
 
 use super::corners::{Extreme, Space};
 use super::engine::DriverRun;
@@ -32,7 +32,7 @@ pub fn corner_of(space: &Space, e: &Extreme) -> Corner {
     if e.ties {
         Corner::Ties
     } else {
-        Corner::At(space.describe(&e.at))
+        Corner::At(space.describe(&e.at), space.values(&e.at))
     }
 }
 
@@ -114,6 +114,7 @@ pub fn corner_for(run: &DriverRun, m: Metric, e: &Extreme) -> Corner {
         return Corner::Ties;
     }
     let mut named = Vec::new();
+    let mut values = Vec::new();
     let mut quiet = 0usize;
     for a in run.space.varying() {
         let (lo, hi) = run.space.range(a);
@@ -130,6 +131,7 @@ pub fn corner_for(run: &DriverRun, m: Metric, e: &Extreme) -> Corner {
             quiet += 1;
         } else {
             named.push(super::corners::describe_axis(a, here));
+            values.push(super::corners::axis_value_of(a, here));
         }
     }
     let mut text = named.join(", ");
@@ -140,7 +142,7 @@ pub fn corner_for(run: &DriverRun, m: Metric, e: &Extreme) -> Corner {
             " (the other axes do not move it)"
         });
     }
-    Corner::At(text)
+    Corner::At(text, values)
 }
 
 /// The check of figure `m` at its worst over the driver's vertices, against `limit`; None

@@ -111,8 +111,7 @@ pub fn propose(board: &Board, run: &DriverRun) -> Result<Option<Proposal>, HostE
     let again = with_comparator(board, run, th)?;
     let ws = windows(board, &again, 0)?;
     let find = |c| ws.iter().find(|w| w.condition == c).copied();
-    let (Some(healthy), Some(open)) = (find(Condition::Healthy), find(Condition::FreewheelOpen))
-    else {
+    let (Some(healthy), Some(open)) = (find(Condition::Healthy), find(Condition::ClampOpen)) else {
         return Ok(None);
     };
     let usable = open.seconds.0 * (1.0 - g.guard.value());
@@ -190,7 +189,7 @@ fn emit(d: &crate::host::board::DriverBoard, p: &Proposal, out: &mut Outcome) {
 /// Which measurement would show a fault the file's measurements cannot.
 fn remedy(c: Condition) -> &'static str {
     match c {
-        Condition::FreewheelOpen => "the proposed comparator, a faster timer, the compensated windows (kickguard::diagnosis::compensate) or the unit's learned window (kickguard::diagnosis::learn)",
+        Condition::ClampOpen => "the proposed comparator, a faster timer, the compensated windows (kickguard::diagnosis::compensate) or the unit's learned window (kickguard::diagnosis::learn)",
         Condition::ZenerShorted => "a comparator between the diode-only switch voltage and the lowest healthy one: a healthy switch-off trips it, a shorted zener never does",
         Condition::CoilOpen => "no on-current: read the coil current before switching off",
         Condition::ShortedTurns => "a decay too fast for the resistance the measured supply and on-current show: the compensated windows (kickguard::diagnosis::compensate)",
@@ -269,7 +268,7 @@ pub fn checks(
                 .find(|k| c.id == format!("diagnosis_{}", condition_words(**k).replace(' ', "_")))
         })
         .filter(|k| {
-            !(**k == Condition::FreewheelOpen && proposal.as_ref().is_some_and(|p| p.detectable))
+            !(**k == Condition::ClampOpen && proposal.as_ref().is_some_and(|p| p.detectable))
         })
         .map(|k| format!("{}: {}", condition_words(*k), remedy(*k)))
         .collect();

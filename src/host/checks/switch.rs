@@ -139,7 +139,7 @@ fn self_avalanche(board: &Board, run: &DriverRun, out: &mut Outcome) {
         ),
         Some(e) => {
             let ok = e.value >= REPETITIVE;
-            let shown = if ok { "repetitively".into() } else { format!("{:.0} in a row", e.value) };
+            let shown = super::open_clamp::count_words(e.value);
             let c = Check::worded(&d.name, "switch_repetitive", "switch survives an avalanche on every switch-off", if ok { Status::Pass } else { Status::Fail }, &shown, super::corner_for(run, Metric::SwitchSurvivable, &e))
                 .of(Metric::SwitchSurvivable)
                 .counted(e.value)

@@ -3,6 +3,7 @@
 
 use super::Metric;
 use std::string::{String, ToString};
+use std::vec::Vec;
 
 /// A check's verdict.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -83,11 +84,24 @@ pub struct Limit {
     pub source: String,
 }
 
+/// One axis of a corner as numbers: its machine name, its value in SI (a tolerance axis as
+/// its scale factor, 1.07 for +7 %) and the unit.
+#[derive(Debug, Clone, PartialEq)]
+pub struct AxisValue {
+    /// Machine name ("supply", "winding_temperature", "resistance_scale").
+    pub name: &'static str,
+    /// The value.
+    pub value: f32,
+    /// Its unit ("V", "°C", "1" for a scale factor).
+    pub unit: &'static str,
+}
+
 /// Where a check's value was found.
 #[derive(Debug, Clone, PartialEq)]
 pub enum Corner {
-    /// At this vertex (in words, naming only the axes that vary).
-    At(String),
+    /// At this vertex: in words (naming only the axes that move the figure) and as numbers
+    /// (the same axes).
+    At(String, Vec<AxisValue>),
     /// Every vertex gives the same value.
     Ties,
     /// Not a corner of the box (a board-wide figure, a sizing): said in words.

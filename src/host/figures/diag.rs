@@ -92,7 +92,7 @@ fn fault_circuit(cx: &Context<'_>, cond: Condition, p: &Point) -> Result<Option<
     let d = cx.d;
     Ok(match cond {
         Condition::Healthy => Some(parts::circuit_at(d, p)?),
-        Condition::FreewheelOpen => parts::open_clamp_at(d, p)?,
+        Condition::ClampOpen => parts::open_clamp_at(d, p)?,
         Condition::ZenerShorted => match &d.clamp {
             ClampBoard::ZenerDiode { diode, .. } | ClampBoard::SwitchedFreewheel { diode, .. } => {
                 let mut c = parts::circuit_at(d, p)?;

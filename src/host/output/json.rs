@@ -3,7 +3,8 @@
 //! ([`crate::host::report::SCHEMA_VERSION`]; the schema is `schema/report.schema.json`).
 
 use crate::host::checks::{Bound, Check, Corner, Outcome, Status};
-use crate::host::report::{Report, CAUTIONS, SCHEMA_VERSION};
+use crate::host::report::plot::{OptionRow, View};
+use crate::host::report::{Report, CAUTIONS, SCHEMA_VERSION, SCOPE};
 use serde_json::{json, Value};
 use std::string::String;
 use std::vec::Vec;
@@ -30,7 +31,11 @@ fn status(s: Status) -> &'static str {
 fn check(c: &Check) -> Value {
     let unit = c.unit.symbol();
     let corner = match &c.corner {
-        Corner::At(w) => json!({"kind": "vertex", "text": w}),
+        Corner::At(w, axes) => json!({
+            "kind": "vertex",
+            "text": w,
+            "axes": axes.iter().map(|a| json!({"name": a.name, "value": num(a.value), "unit": a.unit})).collect::<Vec<_>>(),
+        }),
         Corner::Ties => json!({"kind": "ties", "text": "every corner gives the same value"}),
         Corner::Stated(w) => json!({"kind": "stated", "text": w}),
     };
@@ -53,6 +58,21 @@ fn check(c: &Check) -> Value {
         "monte_carlo": c.spread.map_or(Value::Null, |s| json!({
             "min": num(s.min), "median": num(s.median), "max": num(s.max), "unit": unit, "beyond_worst": s.beyond,
         })),
+    })
+}
+
+fn option(o: &OptionRow) -> Value {
+    let q = |v: f32, u: &str| json!({"value": num(v), "unit": u});
+    json!({
+        "option": o.label,
+        "topology": o.topology,
+        "designed": o.choice == crate::host::report::plot::Choice::Designed,
+        "release_time": o.release.map_or(Value::Null, |t| q(t, "s")),
+        "time_to_1_percent": q(o.off_time, "s"),
+        "peak_switch_voltage": q(o.peak_switch, "V"),
+        "clamp_energy": q(o.clamp_energy, "J"),
+        "switch_energy": q(o.switch_energy, "J"),
+        "average_power": o.power.map_or(Value::Null, |p| q(p, "W")),
     })
 }
 
@@ -84,10 +104,12 @@ pub fn render(r: &Report) -> Result<String, String> {
                 "side": match d.side { crate::clamp::Side::Low => "low", crate::clamp::Side::High => "high" },
                 "clamp": d.kind,
                 "corner_box": d.axes,
+                "axes": d.ranges.iter().map(|(n, lo, hi, u)| json!({"name": n, "low": num(*lo), "high": num(*hi), "unit": u})).collect::<Vec<_>>(),
+                "options": d.options.iter().map(option).collect::<Vec<_>>(),
                 "checks": checks,
                 "constants": constants,
                 "windows": windows,
-                "plot": d.plot.as_ref().map(|p| json!({"file": std::format!("plot_{}.svg", p.module), "corner": p.corner})),
+                "plots": d.plots.iter().map(|p| json!({"file": crate::host::output::svg::file_name(p), "view": match p.view { View::SwitchVoltage => "switch_voltage", View::Release => "release" }, "corner": p.corner})).collect::<Vec<_>>(),
             })
         })
         .collect();
@@ -97,8 +119,16 @@ pub fn render(r: &Report) -> Result<String, String> {
         "title": r.title,
         "file": r.file,
         "cautions": CAUTIONS,
+        "scope": SCOPE,
         "tick_rate": {"value": num(r.tick_hz), "unit": "Hz"},
-        "monte_carlo": r.monte_carlo.map(|m| json!({"samples": m.samples, "seed": m.seed})),
+        "monte_carlo": r.monte_carlo.map(|m| json!({
+            "samples": m.samples,
+            "seed": m.seed,
+            "distribution": match m.distribution {
+                crate::host::montecarlo::Distribution::Uniform => json!({"kind": "uniform"}),
+                crate::host::montecarlo::Distribution::Normal { sigmas } => json!({"kind": "normal", "sigmas": sigmas}),
+            },
+        })),
         "failed": r.failed(),
         "drivers": drivers,
         "board": {"checks": checks, "constants": constants},

@@ -3,8 +3,10 @@
 //! and diagnosis tables, then the board's inputs and a summary.
 
 use super::show::value;
-use crate::host::checks::{Bound, Check, Corner, Status};
-use crate::host::report::{DriverReport, Report, CAUTIONS};
+use crate::host::checks::{Bound, Check, Corner, Status, Unit};
+use crate::host::montecarlo::Distribution;
+use crate::host::report::plot::View;
+use crate::host::report::{DriverReport, Report, CAUTIONS, SCOPE};
 use std::fmt::Write as _;
 use std::format;
 use std::string::String;
@@ -45,7 +47,7 @@ fn figure(c: &Check) -> String {
 fn check(out: &mut String, c: &Check, samples: Option<u32>) {
     let _ = writeln!(out, "  {}  {}: {}", status(c.status), c.title, figure(c));
     match &c.corner {
-        Corner::At(w) => {
+        Corner::At(w, _) => {
             let _ = writeln!(out, "        worst corner: {w}");
         }
         Corner::Ties => {
@@ -89,11 +91,49 @@ fn driver(out: &mut String, d: &DriverReport, samples: Option<u32>) {
     for c in &d.outcome.checks {
         check(out, c, samples);
     }
-    if let Some(p) = &d.plot {
+    options(out, d);
+    for p in &d.plots {
+        let at = match p.view {
+            View::SwitchVoltage => "the worst switch-voltage corner",
+            View::Release => "the worst release corner",
+        };
         let _ = writeln!(
             out,
-            "  plot: plot_{}.svg, at the worst switch-voltage corner ({})",
-            p.module, p.corner
+            "  plot: {}, at {at} ({})",
+            super::svg::file_name(p),
+            p.corner
+        );
+    }
+}
+
+/// The clamp options side by side: the numbers behind the plots.
+fn options(out: &mut String, d: &DriverReport) {
+    if d.options.is_empty() {
+        return;
+    }
+    let at_release = d.plots.iter().any(|p| p.view == View::Release);
+    let _ = writeln!(
+        out,
+        "  clamp options (peak, energies and power at the worst switch-voltage corner; release and 1 % at the {} corner):",
+        if at_release { "worst release" } else { "same" }
+    );
+    let _ = writeln!(
+        out,
+        "    {:<34} {:>10} {:>10} {:>10} {:>11} {:>11} {:>10}",
+        "option", "release", "to 1 %", "peak", "clamp E", "switch E", "power"
+    );
+    for o in &d.options {
+        let dash = || String::from("—");
+        let _ = writeln!(
+            out,
+            "    {:<34} {:>10} {:>10} {:>10} {:>11} {:>11} {:>10}",
+            o.label,
+            o.release.map_or_else(dash, |t| value(t, Unit::Second)),
+            value(o.off_time, Unit::Second),
+            value(o.peak_switch, Unit::Volt),
+            value(o.clamp_energy, Unit::Joule),
+            value(o.switch_energy, Unit::Joule),
+            o.power.map_or_else(dash, |p| value(p, Unit::Watt)),
         );
     }
 }
@@ -106,11 +146,20 @@ pub fn render(r: &Report) -> String {
     for c in CAUTIONS {
         let _ = writeln!(out, "CAUTION: {c}");
     }
+    for c in SCOPE {
+        let _ = writeln!(out, "NOT CHECKED: {c}");
+    }
     let samples = r.monte_carlo.map(|m| m.samples);
     if let Some(m) = r.monte_carlo {
+        let how = match m.distribution {
+            Distribution::Uniform => String::from("uniform inside each corner box"),
+            Distribution::Normal { sigmas } => format!(
+                "normal on every axis, each ± range read as {sigmas}σ about its middle, truncated to the corner box"
+            ),
+        };
         let _ = writeln!(
             out,
-            "Monte Carlo: {} samples per driver, seed {}, uniform inside each corner box",
+            "Monte Carlo: {} samples per driver, seed {}, {how}",
             m.samples, m.seed
         );
     }

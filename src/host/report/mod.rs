@@ -20,8 +20,13 @@ pub const CAUTIONS: [&str; 3] = [
     "Local codes and licensed practice prevail over anything computed here.",
 ];
 
+/// What the checks do not cover, said in every report until the models cover it.
+pub const SCOPE: [&str; 1] = [
+    "Supplies are checked over their steady minimum … maximum only: load dump, jump start, surges and reverse polarity (ISO 16750-2, IEC 61131-2 and the like) are not checked.",
+];
+
 /// Version of the JSON report's layout (`schema/report.schema.json`).
-pub const SCHEMA_VERSION: u32 = 1;
+pub const SCHEMA_VERSION: u32 = 2;
 
 /// One driver's results.
 #[derive(Debug, Clone)]
@@ -40,8 +45,13 @@ pub struct DriverReport {
     pub axes: Vec<String>,
     /// Checks, constants and tables.
     pub outcome: Outcome,
-    /// The decay of each clamp option at the worst corner.
-    pub plot: Option<plot::Plot>,
+    /// Every axis that varies as numbers: (machine name, lowest, highest, unit).
+    pub ranges: Vec<(&'static str, f32, f32, &'static str)>,
+    /// The decay of each clamp option at the worst switch-voltage corner, then at the worst
+    /// release corner (with a must-release voltage).
+    pub plots: Vec<plot::Plot>,
+    /// Every clamp option's figures (the table beside the plots).
+    pub options: Vec<plot::OptionRow>,
 }
 
 /// A whole run.
@@ -121,8 +131,16 @@ fn driver(
         side: run.d.side,
         kind: run.d.clamp.kind(),
         axes: run.space.describe_ranges(),
+        ranges: run.space.ranges(),
         outcome,
-        plot: plot::plot(board, run)?,
+        plots: [plot::View::SwitchVoltage, plot::View::Release]
+            .into_iter()
+            .map(|v| plot::plot(board, run, v))
+            .collect::<Result<Vec<_>, _>>()?
+            .into_iter()
+            .flatten()
+            .collect(),
+        options: plot::option_table(board, run)?,
     })
 }
 
