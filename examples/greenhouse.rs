@@ -160,11 +160,16 @@ fn relay_release(relay: &Coil, z18: Breakdown) -> Result<(), Error> {
         };
         let off = SwitchOff::new(relay, &clamp, Side::Low, &op)?;
         let r = release_time(&off, i_rel, Seconds::new(8e-3)?)?;
+        // Before re-energising: the contacts have opened and the current has decayed (below
+        // 1 % of its on-value), whichever comes later.
+        let decayed = off.time_to(Amps::new(0.01 * i_on.value())?)?;
+        let tick = Hertz::new(10e3)?;
+        let (open, low) = (to_ticks(r.total, tick)?, to_ticks(decayed, tick)?);
         println!(
-            "{name:<20} electrical {:>6.2} ms + 8 ms = {:>6.2} ms → wait {} ticks of 10 kHz before re-energising",
+            "{name:<20} electrical {:>6.2} ms + 8 ms = {:>6.2} ms: contacts open after {open} ticks of 10 kHz, current below 1 % after {low}; re-energise after {}",
             r.electrical.value() * 1e3,
             r.total.value() * 1e3,
-            to_ticks(r.total, Hertz::new(10e3)?)?
+            open.max(low)
         );
     }
     Ok(())

@@ -12,6 +12,8 @@ use kickguard::host::checks::{Check, Status};
 use kickguard::host::report::Report;
 use kickguard::host::{analyse_text, Options};
 
+mod common;
+
 const ALPHA: f64 = 0.00393;
 
 fn analyse(text: &str) -> Report {
@@ -35,24 +37,7 @@ fn close(a: f64, b: f64, rel: f64) -> bool {
     (a - b).abs() <= rel * b.abs()
 }
 
-/// A one-driver design; `extra` goes into the driver's table, `switch` and `clamp` into theirs.
-fn design(
-    supply: (&str, &str, &str),
-    ambient: (&str, &str, &str),
-    coil: &str,
-    switch: &str,
-    clamp: &str,
-    extra: &str,
-) -> String {
-    format!(
-        "title = \"t\"\ntick_rate = \"1 MHz\"\npwm_timer_clock = \"10 MHz\"\n\
-         [environment]\nambient_min = \"{}\"\nambient_max = \"{}\"\ncoil_self_heating = \"{}\"\n\
-         [[supply]]\nname = \"s\"\nnominal = \"{}\"\nmin = \"{}\"\nmax = \"{}\"\n\
-         [[driver]]\nname = \"coil\"\nsupply = \"s\"\n{extra}\n\
-         [driver.coil]\n{coil}\n[driver.switch]\n{switch}\n[driver.clamp]\n{clamp}\n",
-        ambient.0, ambient.1, ambient.2, supply.0, supply.1, supply.2
-    )
-}
+use common::design;
 
 const RELAY_COIL: &str = "inductance = \"0.9 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"160 Ω\"\nresistance_tolerance = \"7 %\"\nresistance_at = \"20 °C\"\nrated_voltage = \"12 V\"\nmust_release = \"10 %\"";
 const PLAIN_SWITCH: &str = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"";

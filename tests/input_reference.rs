@@ -405,3 +405,82 @@ fn bad_inputs_are_named() {
         ("positive injection limit", Reason::NotPositive)
     );
 }
+
+#[test]
+fn rail_off_by_every_input_at_once() {
+    use kickguard::input::rail::{rail_off_together, RailSource};
+    let rail = UnpoweredRail {
+        load: ohm(220.0),
+        allowed: v(0.5),
+    };
+    // Fixed 0.6 V clamp drops: Kirchhoff's current law at the rail node is linear (arithmetic),
+    // V = R_L·Σ nₖ(Vₖ − V_f)/Rₖ / (1 + R_L·Σ nₖ/Rₖ).
+    let pin = Pin::new(v(3.3), Diode::FixedDrop(v(0.6)), tc(85.0)).unwrap();
+    let src = [
+        RailSource {
+            v_signal: v(26.4),
+            r_series: ohm(15_000.0),
+            count: 4,
+        },
+        RailSource {
+            v_signal: v(24.0),
+            r_series: ohm(22_000.0),
+            count: 1,
+        },
+    ];
+    let off = rail_off_together(&pin, &src, &rail).unwrap();
+    let num = 220.0 * (4.0 * (26.4 - 0.6) / 15_000.0 + (24.0 - 0.6) / 22_000.0);
+    let den = 1.0 + 220.0 * (4.0 / 15_000.0 + 1.0 / 22_000.0);
+    let want: f64 = num / den;
+    assert!(
+        (off.rail_voltage.value() as f64 - want).abs() < 1e-5,
+        "{} vs {want}",
+        off.rail_voltage
+    );
+    assert!(!off.verdict.pass);
+    // One line alone is the one-line law (rail_off_check).
+    let one = rail_off_together(&si_pin(3.3, 25.0), &src[1..], &rail).unwrap();
+    let alone = rail_off_check(&si_pin(3.3, 25.0), v(24.0), ohm(22_000.0), &rail).unwrap();
+    assert!((one.rail_voltage.value() - alone.rail_voltage.value()).abs() < 2e-6);
+    // The silicon law, two lines: an independent f64 solve (bisection on the rail voltage, each
+    // line's current by the Brent solve of the diode law with its resistor).
+    let pin = si_pin(3.3, 25.0);
+    let off = rail_off_together(&pin, &src, &rail).unwrap();
+    let fed = |vr: f64| {
+        4.0 * brent_current(&DiodeParams::SILICON, 26.4 - vr, 15_000.0, 298.15)
+            + brent_current(&DiodeParams::SILICON, 24.0 - vr, 22_000.0, 298.15)
+            - vr / 220.0
+    };
+    let (mut lo, mut hi) = (0.0f64, 24.0f64);
+    for _ in 0..200 {
+        let mid = 0.5 * (lo + hi);
+        if fed(mid) > 0.0 {
+            lo = mid;
+        } else {
+            hi = mid;
+        }
+    }
+    assert!(
+        (off.rail_voltage.value() as f64 - lo).abs() < 1e-4,
+        "{} vs {lo}",
+        off.rail_voltage
+    );
+    // Bad input names itself.
+    let bad = [RailSource {
+        v_signal: v(5.0),
+        r_series: ohm(0.0),
+        count: 1,
+    }];
+    assert_eq!(
+        rail_off_together(&pin, &bad, &rail).unwrap_err().input,
+        "series resistor"
+    );
+    // No source: the rail stays at 0 V.
+    assert_eq!(
+        rail_off_together(&pin, &[], &rail)
+            .unwrap()
+            .rail_voltage
+            .value(),
+        0.0
+    );
+}

@@ -8,6 +8,26 @@
 
 pub mod ode;
 
+/// A one-driver design file for the configuration step (feature `host`); `extra` goes into
+/// the driver's table, `switch` and `clamp` into theirs.
+pub fn design(
+    supply: (&str, &str, &str),
+    ambient: (&str, &str, &str),
+    coil: &str,
+    switch: &str,
+    clamp: &str,
+    extra: &str,
+) -> String {
+    format!(
+        "title = \"t\"\ntick_rate = \"1 MHz\"\npwm_timer_clock = \"10 MHz\"\n\
+         [environment]\nambient_min = \"{}\"\nambient_max = \"{}\"\ncoil_self_heating = \"{}\"\n\
+         [[supply]]\nname = \"s\"\nnominal = \"{}\"\nmin = \"{}\"\nmax = \"{}\"\n\
+         [[driver]]\nname = \"coil\"\nsupply = \"s\"\n{extra}\n\
+         [driver.coil]\n{coil}\n[driver.switch]\n{switch}\n[driver.clamp]\n{clamp}\n",
+        ambient.0, ambient.1, ambient.2, supply.0, supply.1, supply.2
+    )
+}
+
 use kickguard::diode::DiodeParams;
 
 /// Boltzmann constant, J/K (exact, SI 2019 / CODATA 2018).

@@ -17,10 +17,10 @@
 //! vertex search takes the smallest.
 
 use super::propose::Proposal;
-use super::{corner_for, figure_check, figures_where, Bound, Check, Constant, Corner, Limit};
+use super::{corner_for, figure_check, Bound, Check, Constant, Corner, Limit};
 use super::{Metric, Outcome, Status};
 use crate::host::engine::DriverRun;
-use crate::host::figures::{survival_reason, REPETITIVE};
+use crate::host::figures::{avalanche_allowance, survival_reason, REPETITIVE};
 use std::format;
 use std::string::String;
 
@@ -72,8 +72,21 @@ pub fn checks(run: &DriverRun, out: &mut Outcome) {
         survivable as u32
     };
     out.constants.push(Constant::new(&d.module, "OPEN_CLAMP_SURVIVABLE", counted, "open-clamp switch-offs the switch survives in a row at the worst corner (0xFFFFFFFF: repetitively)"));
-    let why = figures_where(run, Metric::OpenSurvivable)
-        .and_then(|f| f.open)
+    // The reason at the tightest corner: the largest pulse against the rating derated to its
+    // start (where the count ties over the box, the first vertex would say less).
+    let why = run
+        .figures
+        .iter()
+        .filter_map(|f| f.open)
+        .max_by(|a, b| {
+            let load = |o: &crate::host::figures::OpenFigures| {
+                o.energy
+                    / avalanche_allowance(&d.switch, o.start_c)
+                        .unwrap_or(1.0)
+                        .max(1e-30)
+            };
+            load(a).total_cmp(&load(b))
+        })
         .map(|o| survival_reason(&d.switch, d.switching_rate, o.energy, o.start_c))
         .unwrap_or_default();
     let (status, judged) = match confirmations {

@@ -15,7 +15,9 @@ mod survival;
 
 pub use diag::{measure, MAX_MEASUREMENTS, TOO_HOT_SPAN_K};
 pub use hold::{HoldFigures, HoldPlan};
-pub use survival::{reason as survival_reason, survivable, REPETITIVE};
+pub use survival::{
+    allowed as avalanche_allowance, reason as survival_reason, survivable, REPETITIVE,
+};
 
 use super::board::{Board, DriverBoard};
 use super::corners::Axis;

@@ -33,14 +33,7 @@ pub fn survivable(sw: &SwitchBoard, rate: Option<Hertz>, energy: f32, start_c: f
     let e_as = sw.energy_single?.value();
     let tj_max = sw.junction_max?.celsius();
     let span = tj_max - 25.0;
-    let allowed = |t: f32| {
-        if t <= 25.0 {
-            e_as
-        } else {
-            e_as * (tj_max - t) / span
-        }
-    };
-    if !(energy <= allowed(start_c)) {
+    if !(energy <= allowed(sw, start_c)?) {
         return Some(0.0);
     }
     let Some(e_ar) = sw.energy_repetitive.map(|e| e.value()) else {
@@ -97,6 +90,18 @@ fn count_cooling(dt: f32, ln_a: f32, headroom: f32) -> f32 {
     (m + 1.0).clamp(1.0, REPETITIVE)
 }
 
+/// The single-pulse allowance from a start at `start_c` (°C): E_AS derated linearly to zero at
+/// T_jmax, E_AS itself at or below 25 °C; None without the rating.
+pub fn allowed(sw: &SwitchBoard, start_c: f32) -> Option<f32> {
+    let e_as = sw.energy_single?.value();
+    let tj_max = sw.junction_max?.celsius();
+    Some(if start_c <= 25.0 {
+        e_as
+    } else {
+        e_as * (tj_max - start_c) / (tj_max - 25.0)
+    })
+}
+
 /// Why [`survivable`] gives the count it gives, in words: the pulse energy, the single-pulse
 /// rating derated to the start temperature, and the rule that set the count (no repetitive
 /// rating, above it, the thermal recursion, the average heating, or no thermal data).
@@ -106,11 +111,7 @@ pub fn reason(sw: &SwitchBoard, rate: Option<Hertz>, energy: f32, start_c: f32) 
     };
     let (e_as, tj_max) = (e_as.value(), tj.celsius());
     let span = tj_max - 25.0;
-    let allowed = if start_c <= 25.0 {
-        e_as
-    } else {
-        e_as * (tj_max - start_c) / span
-    };
+    let allowed = allowed(sw, start_c).unwrap_or(e_as);
     let head = format!(
         "{} per switch-off against the single-pulse rating {} derated to {} from a {start_c:.1} °C start",
         mj(energy),
