@@ -17,13 +17,18 @@ pub const K_OVER_Q_V_PER_K: f32 = (BOLTZMANN_J_PER_K / ELEMENTARY_CHARGE_C) as f
 /// Accuracy: within 1 ulp of f32 of the exact SI value (k/q is rounded once to f32, then one
 /// multiplication).
 ///
+/// # Errors
+/// A temperature so close to absolute zero (below about 1.2e-26 K) that Vt falls below the
+/// quantities' smallest magnitude → [`crate::Reason::TooSmall`] on `"thermal voltage"`.
+///
 /// ```
 /// use kickguard::{physics::thermal_voltage, Temperature};
-/// let vt = thermal_voltage(Temperature::from_kelvin(300.0).unwrap());
+/// let vt = thermal_voltage(Temperature::from_kelvin(300.0)?)?;
 /// assert!((vt.value() - 0.025852).abs() < 1e-6);
+/// # Ok::<(), kickguard::Error>(())
 /// ```
-pub fn thermal_voltage(t: Temperature) -> Volts {
-    Volts::raw(K_OVER_Q_V_PER_K * t.kelvin())
+pub fn thermal_voltage(t: Temperature) -> Result<Volts, crate::Error> {
+    Volts::new(K_OVER_Q_V_PER_K * t.kelvin()).map_err(|e| e.on("thermal voltage"))
 }
 
 /// Thermal voltage at a raw kelvin value (internal; `t_k` already validated).

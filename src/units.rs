@@ -119,13 +119,13 @@ macro_rules! product {
         impl Mul<$b> for $a {
             type Output = Result<$c, Error>;
             fn mul(self, rhs: $b) -> Result<$c, Error> {
-                checked("product", self.0 * rhs.0).map($c)
+                product_of(self.0, rhs.0).map($c)
             }
         }
         impl Mul<$a> for $b {
             type Output = Result<$c, Error>;
             fn mul(self, rhs: $a) -> Result<$c, Error> {
-                checked("product", self.0 * rhs.0).map($c)
+                product_of(self.0, rhs.0).map($c)
             }
         }
     };
@@ -152,6 +152,20 @@ macro_rules! additive {
 /// A computed value must stay inside the quantity bounds (never ∞, never a subnormal).
 fn checked(what: &'static str, x: f32) -> Result<f32, Error> {
     error::finite(what, x)
+}
+
+/// The product `a·b` inside the bounds: a product of two nonzero factors that underflows to
+/// zero is [`Reason::TooSmall`] on `"product"`, never a silent zero.
+fn product_of(a: f32, b: f32) -> Result<f32, Error> {
+    nonzero_result("product", a * b, a != 0.0 && b != 0.0)
+}
+
+/// `x` inside the bounds, and not zero when `nonzero` says it cannot be (an underflow).
+fn nonzero_result(what: &'static str, x: f32, nonzero: bool) -> Result<f32, Error> {
+    if nonzero && x == 0.0 {
+        return Err(Error::new(what, Reason::TooSmall));
+    }
+    checked(what, x)
 }
 
 quantity!(
@@ -250,8 +264,9 @@ impl Henries {
     /// # Ok::<(), kickguard::Error>(())
     /// ```
     pub fn stored_energy(self, i: Amps) -> Result<Joules, Error> {
-        // L ≤ 1e12 and I² ≤ 1e24: the f32 product is finite; the bound check does the rest.
-        checked("stored energy", 0.5 * self.0 * i.0 * i.0).map(Joules)
+        // L ≤ 1e12 and I² ≤ 1e24: the f32 product is finite; the bound check does the rest,
+        // and a nonzero current whose energy underflows to zero is TooSmall.
+        nonzero_result("stored energy", 0.5 * self.0 * i.0 * i.0, i.0 != 0.0).map(Joules)
     }
 }
 
@@ -284,14 +299,16 @@ impl Volts {
 pub struct Duty(f32);
 
 impl Duty {
-    /// A fraction from 0 to 1.
+    /// A fraction from 0 to 1: zero, or from [`MIN_MAGNITUDE`] up, like every quantity.
     ///
     /// # Errors
-    /// Non-finite → [`Reason::NotFinite`]; outside 0…1 → [`Reason::OutsideValidatedRange`]; both
-    /// on `"duty"`.
+    /// Non-finite → [`Reason::NotFinite`]; outside 0…1 → [`Reason::OutsideValidatedRange`];
+    /// nonzero below [`MIN_MAGNITUDE`] → [`Reason::TooSmall`]; all on `"duty"`.
     pub const fn new(d: f32) -> Result<Self, Error> {
         if !d.is_finite() {
             Err(Error::new("duty", Reason::NotFinite))
+        } else if d != 0.0 && d.abs() < MIN_MAGNITUDE {
+            Err(Error::new("duty", Reason::TooSmall))
         } else if d >= 0.0 && d <= 1.0 {
             Ok(Duty(d))
         } else {
@@ -332,14 +349,17 @@ impl fmt::Display for Duty {
 pub struct PerKelvin(f32);
 
 impl PerKelvin {
-    /// A coefficient in 1/K.
+    /// A coefficient in 1/K: zero, or of magnitude from [`MIN_MAGNITUDE`] up.
     ///
     /// # Errors
-    /// Non-finite → [`Reason::NotFinite`]; |c| > 0.1 /K → [`Reason::OutsideValidatedRange`]; both
-    /// on `"temperature coefficient"`.
+    /// Non-finite → [`Reason::NotFinite`]; |c| > 0.1 /K → [`Reason::OutsideValidatedRange`];
+    /// nonzero below [`MIN_MAGNITUDE`] → [`Reason::TooSmall`]; all on
+    /// `"temperature coefficient"`.
     pub const fn new(c: f32) -> Result<Self, Error> {
         if !c.is_finite() {
             Err(Error::new("temperature coefficient", Reason::NotFinite))
+        } else if c != 0.0 && c.abs() < MIN_MAGNITUDE {
+            Err(Error::new("temperature coefficient", Reason::TooSmall))
         } else if c >= -0.1 && c <= 0.1 {
             Ok(PerKelvin(c))
         } else {

@@ -353,19 +353,26 @@ fn flyback_timed_by_a_hardware_counter() {
     );
     drive.done();
     both.done();
-    // A counter that does not advance ends in a timeout, not a hang.
-    let mut drive = PinMock::new(&[PinTx::set(State::Low)]);
-    let mut sense = AlwaysHigh(0);
-    let mut stuck = Steps {
-        now: 5,
-        per_read: 0,
-    };
-    assert_eq!(
-        time_flyback(&mut drive, &mut sense, &mut stuck, 0),
-        Err(MeasureError::Timeout)
-    );
-    assert_eq!(sense.0, kickguard::diagnosis::hal::POLLS_PER_TICK);
-    drive.done();
+    // A counter that does not advance is reported as stalled after STALL_POLLS reads, whatever
+    // the timeout (the largest one included): no hang.
+    for timeout in [0u32, 1000, u32::MAX] {
+        let mut drive = PinMock::new(&[PinTx::set(State::Low)]);
+        let mut sense = AlwaysHigh(0);
+        let mut stuck = Steps {
+            now: 5,
+            per_read: 0,
+        };
+        assert_eq!(
+            time_flyback(&mut drive, &mut sense, &mut stuck, timeout),
+            Err(MeasureError::Stalled)
+        );
+        assert_eq!(
+            sense.0,
+            u64::from(kickguard::diagnosis::hal::STALL_POLLS),
+            "{timeout}"
+        );
+        drive.done();
+    }
 }
 
 /// A comparator stuck high, counting its reads.

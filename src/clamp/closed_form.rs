@@ -129,7 +129,10 @@ pub fn single_pulse_avalanche_energy(
     if !(vbr > vs) {
         return Err(Error::new("breakdown voltage", Reason::CannotClamp));
     }
-    let stored = l.stored_energy(i)?.value();
+    let stored = l
+        .stored_energy(i)
+        .map_err(|e| e.on("avalanche energy"))?
+        .value();
     Joules::new(stored * (vbr / (vbr - vs))).map_err(|e| e.on("avalanche energy"))
 }
 

@@ -147,6 +147,8 @@ impl SwitchOff {
     /// (≤ 60 evaluations of the loop law) when the loop settles at a steady current.
     ///
     /// # Errors
+    /// A peak switch or output voltage beyond the quantities' range (±1e12 V) →
+    /// [`Reason::TooLarge`] on `"peak switch voltage"` / `"peak output voltage"`;
     /// `op.start_current` ≤ 0 → [`Reason::NotPositive`] on `"start current"`; `op.supply` ≤ 0 →
     /// [`Reason::NotPositive`] on `"supply voltage"`; a clamp-part temperature outside
     /// −100…250 °C → [`Reason::OutsideValidatedRange`] on `"diode temperature"` or
@@ -186,9 +188,10 @@ impl SwitchOff {
         };
         off.peak_switch = off.switch_voltage_raw(i0);
         off.peak_output = off.output_voltage_raw(i0);
-        if !(off.peak_switch.is_finite() && off.peak_output.is_finite()) {
-            return Err(Error::new("switch voltage", Reason::Overflow));
-        }
+        // Every voltage of the decay lies between the supply and these peaks (the clamp voltage
+        // rises with the current), so bounding them bounds every later value.
+        crate::error::finite("peak switch voltage", off.peak_switch)?;
+        crate::error::finite("peak output voltage", off.peak_output)?;
         Ok(off)
     }
 
@@ -240,8 +243,14 @@ impl SwitchOff {
         (self.law.floor < 0.5 * end).then_some(Amps::raw(end))
     }
 
-    /// Voltage across the switch while the coil carries `i` during the decay (internal).
+    /// Voltage across the switch while the coil carries `i` during the decay (internal). At
+    /// zero current the decay is over: the coil carries nothing and has no voltage, so the
+    /// switch sees the supply whatever the clamp (a breakdown law's logarithm is never
+    /// evaluated at zero).
     fn switch_voltage_raw(&self, i: f32) -> f32 {
+        if !(i > 0.0) {
+            return self.v_supply;
+        }
         match self.placement {
             Placement::AcrossCoil => self.v_supply + self.law.v_clamp(i),
             Placement::AcrossSwitch => self.law.v_clamp(i),
@@ -542,7 +551,9 @@ impl SwitchOff {
             law.n_diodes * (law.diode.a * it.d_log + law.diode.rs * it.i2 + law.diode.vf * it.q);
         let resistor = law.r_ext * it.i2;
         Ok(EnergySplit {
-            released_by_coil: j(0.5 * law.l * (self.i0 * self.i0 - i1 * i1))?,
+            // ½·L·(I₀ − I₁)·(I₀ + I₁): the difference of the currents is exact, where
+            // I₀² − I₁² would cancel for a short decay.
+            released_by_coil: j(0.5 * law.l * (self.i0 - i1) * (self.i0 + i1))?,
             // −Vs_term·Q: +Vs·Q for clamps across the switch, −Vs·Q returned by an H-bridge.
             from_supply: j(if law.vs_term == 0.0 {
                 0.0

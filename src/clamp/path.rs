@@ -284,11 +284,12 @@ impl LoopLaw {
             };
         }
         if i_lo > 0.0 {
-            return self.quadrature(s_hi, s_lo);
+            return self.quadrature(s_lo, self.span(i_hi, i_lo, s_hi - s_lo));
         }
         let lower = i_hi.min(self.tail_at);
         let mut acc = if lower < i_hi {
-            self.quadrature(s_hi, math::ln(lower))
+            let s_lower = math::ln(lower);
+            self.quadrature(s_lower, self.span(i_hi, lower, s_hi - s_lower))
         } else {
             Integrals::default()
         };
@@ -326,16 +327,30 @@ impl LoopLaw {
         }
     }
 
-    /// Composite Gauss–Legendre over s from `s_lo` to `s_hi` (s_hi > s_lo).
+    /// The span in s = ln(i − floor) from `i_lo` up to `i_hi` (> `i_lo`), to full relative
+    /// accuracy even for two close currents: ln(1 + (i_hi − i_lo)/(i_lo − floor)), where the
+    /// difference of two currents is exact (Sterbenz) and the difference of two rounded
+    /// logarithms is not (for currents 1 ppm apart it would carry a few per cent of error).
+    /// `diff` is that difference of logarithms, used where the currents are far apart.
+    fn span(&self, i_hi: f32, i_lo: f32, diff: f32) -> f32 {
+        let ratio = (i_hi - i_lo) / (i_lo - self.floor);
+        if ratio > 0.0 && ratio < 1.0 {
+            math::ln_1p(ratio)
+        } else {
+            diff
+        }
+    }
+
+    /// Composite Gauss–Legendre over s from `s_lo` to `s_lo + span` (span > 0).
     ///
     /// Per node: one ln(1 + i/IS) for a diode law, one logarithm only when a steady current
     /// shifts the variable, one exponential for a power law. The current e = exp(s) at the four
     /// nodes of a panel comes from one exponential at its middle times e^(±h·x/2) (the nodes are
     /// symmetric: two exponentials per call), which adds at most two roundings to each node's
     /// current. The loop-invariant sums are taken once.
-    pub(crate) fn quadrature(&self, s_hi: f32, s_lo: f32) -> Integrals {
-        let n = Self::panels(s_hi - s_lo);
-        let h = (s_hi - s_lo) / n as f32;
+    pub(crate) fn quadrature(&self, s_lo: f32, span: f32) -> Integrals {
+        let n = Self::panels(span);
+        let h = span / n as f32;
         let half = 0.5 * h;
         // Node offsets ±h·x/2 and their exponentials, and the weights with L and h/2 folded in.
         let (x_out, x_in) = (half * GL_OUTER.0, half * GL_INNER.0);

@@ -50,14 +50,17 @@ impl SwitchOff {
     /// `out`, until the current falls to `i_end` (0 allowed where the decay reaches zero) or
     /// `out` is full; returns the number of samples written. No allocation: the caller owns the
     /// buffer. When the current reaches `i_end` between two sample times, a last sample is
-    /// written at that instant.
+    /// written at that instant; a sample at zero current shows the off state (the supply across
+    /// the switch; a high-side output at 0 V), the end of every clamp's decay.
     ///
     /// Accuracy: exact on affine paths; each sample's current within about 0.01 % otherwise
-    /// (see the module docs). Work: at most 2400 marching steps plus one evaluation per sample.
+    /// (see the module docs). Work: one integration of the whole decay (its time, checked), at
+    /// most 2400 marching steps, and one evaluation per sample.
     ///
     /// # Errors
     /// `dt` = 0 → [`Reason::NotPositive`] on `"sample interval"`; `i_end` as
-    /// [`SwitchOff::time_to`].
+    /// [`SwitchOff::time_to`]; a decay longer than the quantities' range →
+    /// [`Reason::TooLarge`] on `"decay time"`.
     ///
     /// ```
     /// use kickguard::clamp::{Clamp, Operating, Sample, Side, SwitchOff};
@@ -79,6 +82,9 @@ impl SwitchOff {
             return Err(Error::new("sample interval", Reason::NotPositive));
         }
         let i1 = self.check_end(i_end)?;
+        // Every sample time lies within the decay's: a decay longer than the quantities' range
+        // is refused before any sample is written.
+        Seconds::new(self.law.integrate(self.i0, i1).t).map_err(|e| e.on("decay time"))?;
         let mut w = Writer {
             off: self,
             out,
@@ -126,7 +132,7 @@ impl SwitchOff {
         let mut k = 1usize;
         for j in 1..=steps {
             let s = s_start - j as f32 * h;
-            let seg = law.quadrature(s_prev, s).t;
+            let seg = law.quadrature(s, s_prev - s).t;
             let t_now = t_prev + seg;
             while (k as f32) * dt <= t_now {
                 let tk = k as f32 * dt;

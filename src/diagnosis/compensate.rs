@@ -165,7 +165,8 @@ impl Design {
     /// two decay integrations.
     ///
     /// # Errors
-    /// Edges not increasing → [`Reason::NotIncreasing`] on `"supply edges"` / `"current
+    /// Edges not increasing, or not increasing once rounded to millivolts / microamperes (or
+    /// rounding to zero) → [`Reason::NotIncreasing`] on `"supply edges"` / `"current
     /// edges"`; the last supply edge below the highest supply → [`Reason::Inconsistent`] on
     /// `"supply edges"`; as [`Design::resistance_limit`] and [`Design::tick_windows`].
     pub fn compensated_tick_windows<const S: usize, const C: usize>(
@@ -346,19 +347,26 @@ fn edges<const N: usize>(name: &'static str, e: &[f32; N]) -> Result<[f32; N], E
     Ok(*e)
 }
 
-/// Edges in milli- or micro-units, rounded to the nearest; an edge beyond u32 is refused.
+/// Edges in milli- or micro-units, rounded to the nearest; an edge beyond u32 is refused, and
+/// so are edges that round to the same (or a lower) integer than the one before, which would
+/// leave a bin no reading can select.
 fn scaled_edges<const N: usize>(
     name: &'static str,
     e: &[f32; N],
     scale: f32,
 ) -> Result<[u32; N], Error> {
     let mut out = [0u32; N];
+    let mut prev: Option<u32> = None;
     for (o, x) in out.iter_mut().zip(e) {
         let y = libm::roundf(x * scale);
         if !(y >= 0.0 && y < u32::MAX as f32) {
             return Err(Error::new(name, Reason::TooLarge));
         }
-        *o = y as u32;
+        let v = y as u32;
+        if prev.is_some_and(|p| v <= p) || v == 0 {
+            return Err(Error::new(name, Reason::NotIncreasing));
+        }
+        (*o, prev) = (v, Some(v));
     }
     Ok(out)
 }

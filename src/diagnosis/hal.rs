@@ -29,6 +29,9 @@ pub enum MeasureError<O, I> {
     Timeout,
     /// A poll period (`poll_ns` or `poll_ticks`) was zero.
     ZeroStep,
+    /// The counter did not advance for [`STALL_POLLS`] polls in a row (a stopped timer), or the
+    /// wait reached [`MAX_POLLS`] polls: the elapsed time cannot be known.
+    Stalled,
 }
 
 impl<O: fmt::Debug, I: fmt::Debug> fmt::Display for MeasureError<O, I> {
@@ -38,6 +41,7 @@ impl<O: fmt::Debug, I: fmt::Debug> fmt::Display for MeasureError<O, I> {
             MeasureError::Input(e) => write!(f, "sense pin error: {e:?}"),
             MeasureError::Timeout => f.write_str("flyback did not end before the timeout"),
             MeasureError::ZeroStep => f.write_str("poll period must be greater than zero"),
+            MeasureError::Stalled => f.write_str("the tick counter stopped advancing"),
         }
     }
 }
@@ -53,46 +57,63 @@ pub trait TickCounter {
 
 /// Waits while `pin` is high, at most `timeout` ticks after `start`; returns the elapsed ticks
 /// at the first low read.
-/// A counter that does not advance cannot hang it: after [`POLLS_PER_TICK`] polls per tick of
-/// the timeout (a poll far faster than any real tick) it is a timeout too.
+///
+/// Bounded whatever the counter does and whatever the timeout: at most [`STALL_POLLS`] polls
+/// in a row without the counter moving, and at most [`MAX_POLLS`] polls in all
+/// ([`MeasureError::Stalled`] either way); a counter that advances ends it within `timeout`
+/// ticks of real time.
 fn wait_low<I: InputPin, C: TickCounter, OE>(
     pin: &mut I,
     counter: &mut C,
     start: u32,
     timeout: u32,
 ) -> Result<u32, MeasureError<OE, I::Error>> {
-    let max_polls = (timeout as u64 + 1).saturating_mul(POLLS_PER_TICK);
-    let mut polls = 0u64;
-    while polls < max_polls {
+    let mut last = start;
+    let mut still = 0u32;
+    for _ in 0..MAX_POLLS {
         let high = pin.is_high().map_err(MeasureError::Input)?;
+        let now = counter.ticks();
         // Wrapping difference: exact across one wrap of the counter.
-        let elapsed = counter.ticks().wrapping_sub(start);
+        let elapsed = now.wrapping_sub(start);
         if !high {
             return Ok(elapsed);
         }
         if elapsed > timeout {
             return Err(MeasureError::Timeout);
         }
-        // polls < max_polls ≤ u64::MAX: cannot saturate.
-        polls = polls.saturating_add(1);
+        if now == last {
+            // still < STALL_POLLS ≤ u32::MAX here: cannot saturate.
+            still = still.saturating_add(1);
+            if still >= STALL_POLLS {
+                return Err(MeasureError::Stalled);
+            }
+        } else {
+            (last, still) = (now, 0);
+        }
     }
-    Err(MeasureError::Timeout)
+    Err(MeasureError::Stalled)
 }
 
-/// Polls per tick of a timeout after which a counter that does not advance counts as a
-/// timeout (a 1 GHz core polling a 32 kHz timer makes about 3·10⁴ polls a tick).
-pub const POLLS_PER_TICK: u64 = 1 << 20;
+/// Polls in a row without the counter advancing after which it counts as stopped: 2²⁰ (a
+/// 1 GHz core polling a 32 kHz timer makes about 3·10⁴ polls a tick).
+pub const STALL_POLLS: u32 = 1 << 20;
+
+/// Polls at most in one wait, whatever the timeout: 2³² (about 4 s of a 1 GHz core doing
+/// nothing else; far beyond any flyback).
+pub const MAX_POLLS: u64 = 1 << 32;
 
 /// Switches the coil off (drive low) and returns the ticks until the drain comparator `sense`
 /// falls, read from `counter`. A sense input already low returns about 0 (no flyback seen: an
 /// open coil, or a decay shorter than one tick).
 ///
 /// Work: one counter read and one pin read per loop, until the input falls or `timeout_ticks`
-/// have elapsed (bounded by the hardware counter, not by a loop count).
+/// have elapsed on the counter; at most [`STALL_POLLS`] loops without the counter moving and
+/// [`MAX_POLLS`] in all, whatever the timeout.
 ///
 /// # Errors
 /// [`MeasureError::Output`] / [`MeasureError::Input`] with the pin's own error;
-/// [`MeasureError::Timeout`] when the input is still high after `timeout_ticks`.
+/// [`MeasureError::Timeout`] when the input is still high after `timeout_ticks`;
+/// [`MeasureError::Stalled`] for a counter that stopped (or a wait beyond [`MAX_POLLS`]).
 pub fn time_flyback<O, I, C>(
     drive: &mut O,
     sense: &mut I,

@@ -80,7 +80,7 @@ fn units() -> Result<(), Error> {
         t2.celsius(),
         Duty::percent(bb(40.0))?,
     ));
-    bb(kickguard::physics::thermal_voltage(t));
+    let _ = bb(kickguard::physics::thermal_voltage(t));
     // Formatting: the crate's own printer, into a sink that only counts (the proof is about
     // kickguard's formatting path, not about any particular buffer type).
     let mut out = Sink(0);
