@@ -537,3 +537,34 @@ fn parser_errors_speak_the_tools_words_and_name_the_table() {
     let (_, _, field, message) = input_error(&one);
     assert_eq!(field, "driver[0].clamp", "{message}");
 }
+
+#[test]
+fn refusals_are_located_at_the_field_that_caused_them() {
+    let demo = demo_text();
+    // A PWM period far longer than the coil's L/R (1 Hz), or an L far too small for 20 kHz: the
+    // current falls to zero every period (discontinuous conduction, outside the hold model):
+    // located at the hold's frequency, saying why, not at the clamp.
+    for (from, to) in [
+        ("frequency = \"20 kHz\"", "frequency = \"1 Hz\""),
+        ("inductance = \"350 mH\"", "inductance = \"1 µH\""),
+    ] {
+        let (_, _, field, message) = input_error(&demo.replacen(from, to, 1));
+        assert_eq!(field, "driver[0].hold.frequency", "{to}: {message}");
+        assert!(message.contains("continuous conduction"), "{message}");
+    }
+    // A self-heating the coil model cannot follow (the coil-too-hot fault lies 50 K above the
+    // hottest winding, the model ends at 250 °C): refused where it is written.
+    let t = demo.replacen(
+        "coil_self_heating = \"25 K\"",
+        "coil_self_heating = \"150 K\"",
+        1,
+    );
+    let (line, _, field, message) = input_error(&t);
+    assert_eq!(field, "environment.coil_self_heating", "{message}");
+    assert!(line > 1 && message.contains("250 °C"), "{message}");
+    // A duplicate key names itself and its table.
+    let t = demo.replacen("guard = \"5 %\"", "guard = \"5 %\"\nguard = \"6 %\"", 1);
+    let (_, _, field, message) = input_error(&t);
+    assert_eq!(field, "driver[0].diagnosis.guard");
+    assert!(message.contains("duplicate key `guard`"), "{message}");
+}

@@ -547,3 +547,49 @@ fn case_15_bin_edges_that_round_together_are_refused() {
         ("current edges", Reason::NotIncreasing)
     );
 }
+
+#[test]
+fn case_16_shorted_turn_factors_the_coil_model_cannot_hold_are_refused_by_name() {
+    use kickguard::Reason;
+    let coil = Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap();
+    let mut design = Design {
+        coil,
+        inductance_tolerance: 0.1,
+        resistance_tolerance: 0.07,
+        v_supply_min: Volts::new(21.6).unwrap(),
+        v_supply_max: Volts::new(26.4).unwrap(),
+        t_winding_min: t(-10.0),
+        t_winding_max: t(80.0),
+        t_winding_fault_max: t(130.0),
+        t_clamp_min: t(-10.0),
+        t_clamp_max: t(80.0),
+        clamp: Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap())),
+        clamp_tolerance: 0.0,
+        switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
+        avalanche_tolerance: 0.0,
+        shorted: ShortedTurns::Scales {
+            inductance: 1e-40,
+            resistance: 1e-40,
+        },
+        side: Side::Low,
+    };
+    let m = Measurement::SwitchAbove {
+        threshold: Volts::new(30.0).unwrap(),
+    };
+    let e = design.separations(&m).unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("shorted turns", Reason::OutsideValidatedRange)
+    );
+    design.shorted = ShortedTurns::Fraction(0.999_99);
+    let e = design.separations(&m).unwrap_err();
+    assert_eq!(
+        (e.input, e.reason),
+        ("shorted turns", Reason::OutsideValidatedRange)
+    );
+    design.shorted = ShortedTurns::Scales {
+        inductance: 1e-4,
+        resistance: 0.5,
+    };
+    assert!(design.separations(&m).is_ok());
+}

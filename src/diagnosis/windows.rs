@@ -49,10 +49,11 @@ pub enum Measurement {
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum ShortedTurns {
     /// A share f of the turns shorted, with the usual scaling: L·(1 − f)² (inductance goes
-    /// with the square of the turns) and R·(1 − f) (resistance with the wire length); 0 < f < 1.
+    /// with the square of the turns) and R·(1 − f) (resistance with the wire length);
+    /// 0 < f ≤ 0.99.
     Fraction(f32),
-    /// Stated changes: L and R multiplied by these (each 0 < k ≤ 1), for a winding whose
-    /// shorted-turns behaviour is known from measurement.
+    /// Stated changes: L and R multiplied by these (each [`MIN_SHORTED_FACTOR`] ≤ k ≤ 1), for
+    /// a winding whose shorted-turns behaviour is known from measurement.
     Scales {
         /// Inductance factor.
         inductance: f32,
@@ -61,12 +62,17 @@ pub enum ShortedTurns {
     },
 }
 
+/// The smallest L or R factor a shorted-turns fault may leave (1e-4: 99 % of the turns
+/// shorted), so the faulted coil stays inside the coil model's range and a refusal names the
+/// shorted-turns fault, not a quantity the caller never wrote.
+pub const MIN_SHORTED_FACTOR: f32 = 1e-4;
+
 impl ShortedTurns {
-    /// The (L, R) factors, validated.
+    /// The (L, R) factors, validated: each within [`MIN_SHORTED_FACTOR`] … 1.
     fn factors(self) -> Result<(f32, f32), Error> {
         match self {
             ShortedTurns::Fraction(f) => {
-                if !(f > 0.0 && f < 1.0) {
+                if !(f > 0.0 && f <= 0.99) {
                     return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
                 }
                 Ok(((1.0 - f) * (1.0 - f), 1.0 - f))
@@ -76,7 +82,7 @@ impl ShortedTurns {
                 resistance,
             } => {
                 for k in [inductance, resistance] {
-                    if !(k > 0.0 && k <= 1.0) {
+                    if !(k >= MIN_SHORTED_FACTOR && k <= 1.0) {
                         return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
                     }
                 }

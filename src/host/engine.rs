@@ -9,6 +9,7 @@ use super::heating;
 use super::sizing::{self, HoldChoice, ZenerChoice};
 use super::HostError;
 use std::format;
+use std::string::{String, ToString};
 use std::vec::Vec;
 
 /// The hottest any part may be taken by self-heating, °C: the library's models stop at 250 °C.
@@ -49,7 +50,28 @@ impl DriverRun {
     }
 }
 
-/// A model refusal at a corner, located at the driver's clamp.
+/// The design field a model refusal points at, from the library's name for the input it
+/// refused, with what the user can do: the field whose value took the model there, not the
+/// clamp by default. A board-level field is returned with a leading `^`.
+fn cause(e: &crate::Error) -> (&'static str, &'static str) {
+    match e.input {
+        "duty" => ("hold.frequency", "the coil current falls to zero in every PWM period (the period is long against the coil's L/R) or cannot be held, so continuous conduction, the hold model's assumption, fails: raise hold.frequency or check coil.inductance"),
+        "hold current" => ("hold.hold_current", "the hold current cannot be reached at this corner"),
+        "pull-in current" => ("hold.pull_in_current", "the pull-in current cannot be reached at this corner"),
+        "period" | "timer period" => ("hold.frequency", "the PWM period is beyond the quantities' range"),
+        "winding temperature" | "coil resistance" => ("^environment.coil_self_heating", "the winding (or the coil-too-hot fault above it) leaves the coil model's −100 … 250 °C"),
+        "inductance" | "time constant" => ("coil.inductance", "the coil's values take the model out of its range"),
+        "start current" | "current" | "R" => ("coil.resistance", "the on-current takes the model out of its range"),
+        "diode temperature" | "diode drop" | "IS" | "forward current" | "drop shift" => ("clamp.diode", "the clamp diode leaves its model's range (its own heating included)"),
+        "breakdown temperature" | "breakdown voltage" | "breakdown current" | "active clamp voltage" | "rz" => ("clamp.voltage", "the clamp's breakdown part leaves its model's range (its own heating included)"),
+        "avalanche energy" => ("switch.avalanche_energy", "the avalanche energy leaves the quantities' range"),
+        "shorted turns" => ("diagnosis.shorted_turns", "the shorted-turns fault leaves the model's range"),
+        "threshold" | "upper threshold" | "upper current threshold" => ("diagnosis", "a measurement's threshold is out of the model's reach"),
+        _ => ("clamp", ""),
+    }
+}
+
+/// A model refusal at a corner, located at the design field that caused it (see [`cause`]).
 pub fn refused(
     board: &Board,
     d: &DriverBoard,
@@ -57,10 +79,20 @@ pub fn refused(
     p: &Point,
     e: crate::Error,
 ) -> HostError {
+    let (field, hint) = cause(&e);
+    let located = match field.strip_prefix('^') {
+        Some(board_field) => board_field.to_string(),
+        None => format!("{}.{field}", d.field),
+    };
+    let hint = if hint.is_empty() {
+        String::new()
+    } else {
+        format!(" ({hint})")
+    };
     board.fault(
-        &format!("{}.clamp", d.field),
+        &located,
         format!(
-            "at the corner {} the model refuses it: {e}",
+            "at the corner {} the model refuses it: {e}{hint}",
             space.describe(p)
         ),
     )

@@ -113,10 +113,13 @@ fn environment(
         Unit::Kelvin,
         range(0.0, 150.0, "0 … 150 K"),
     )?;
-    if hi + heat > 250.0 {
+    // The coil model's range ends at 250 °C, and the diagnosis puts the coil-too-hot fault up
+    // to TOO_HOT_SPAN_K above the hottest winding: the same bound here, refused where it is set.
+    let top = 250.0 - crate::host::figures::TOO_HOT_SPAN_K;
+    if hi + heat > top {
         return Err(r.at(
             "environment.coil_self_heating",
-            "takes the hottest winding above 250 °C",
+            format!("takes the hottest winding above {top} °C (the coil model ends at 250 °C, and the coil-too-hot fault the diagnosis checks lies up to {} K above the hottest winding)", crate::host::figures::TOO_HOT_SPAN_K),
         ));
     }
     Ok((

@@ -369,8 +369,56 @@ pub fn parse_file(reader: &Reader<'_>) -> Result<DesignFile, HostError> {
                 })
             })
             .unwrap_or_default();
+        if message == "duplicate key" {
+            let key = duplicate_key(reader.text, span.start);
+            let field = match table_above(reader.text, span.start) {
+                Some(t) => std::format!("{t}.{key}"),
+                None => key.clone(),
+            };
+            return reader.error(
+                span,
+                &field,
+                std::format!("duplicate key `{key}`: a key may appear once in its table"),
+            );
+        }
         reader.error(span, &field, own_words(&message, &field))
     })
+}
+
+/// The dotted path of the table whose header stands last before `pos` (`[driver.diagnosis]`
+/// in the second `[[driver]]` is `driver[1].diagnosis`); None at the top level.
+fn table_above(text: &str, pos: usize) -> Option<String> {
+    let before = text.get(..pos).unwrap_or(text);
+    let header = before
+        .lines()
+        .rev()
+        .map(str::trim_start)
+        .find(|l| l.starts_with('['))?;
+    let name = header
+        .trim_start_matches('[')
+        .split(']')
+        .next()
+        .unwrap_or("")
+        .trim();
+    let (first, rest) = match name.split_once('.') {
+        Some((a, b)) => (a, Some(b)),
+        None => (name, None),
+    };
+    let first = indexed(text, first, pos);
+    Some(match rest {
+        Some(r) => std::format!("{first}.{r}"),
+        None => first,
+    })
+}
+
+/// The key written at `pos` (for the parser's "duplicate key", which names none): the text up
+/// to the `=` or the end of the line, trimmed and unquoted.
+fn duplicate_key(text: &str, pos: usize) -> String {
+    let rest = text.get(pos..).unwrap_or("");
+    let line = rest.lines().next().unwrap_or("");
+    let key = line.split('=').next().unwrap_or("").trim();
+    let key = key.trim_matches(|c| c == '"' || c == '\'' || c == '[' || c == ']');
+    key.chars().take(64).collect()
 }
 
 /// An array-of-tables path the parser reports without its index (`driver`, at the header of
