@@ -17,6 +17,11 @@
 //!
 //! Magnitudes are limited to [`MIN_MAGNITUDE`] ≤ |x| ≤ [`MAX_MAGNITUDE`] (or exactly zero).
 //!
+//! **Formatting on a target.** `Display` (`{}`) goes through the crate's own decimal writer and
+//! has no panic path (the link-time proof formats every quantity and error through it). The
+//! derived `Debug` (`{:?}`) uses core's float formatting, which keeps a panic path: log with
+//! `Display` (or `defmt`) in firmware that must be provably panic-free.
+//!
 //! **Arithmetic is checked.** Only the physically meaningful operations exist (`Ohms * Amps ->
 //! Volts`, `Volts * Amps -> Watts`, `Watts * Seconds -> Joules`, `Amps * Seconds -> Coulombs`,
 //! `Coulombs * Volts -> Joules`, `Ohms * Farads -> Seconds`, and `+`/`-` within one signed
