@@ -19,7 +19,7 @@ use kickguard::diagnosis::{Condition, Design, Measurement, ShortedTurns, Timing,
 use kickguard::diode::{
     fit_three_points, fit_two_points, BandGap, Diode, DiodeParams, DropPoint, Ideality, Xti,
 };
-use kickguard::input::rail::shared_clamp;
+use kickguard::input::rail::{rail_off_together, shared_clamp, RailSource, UnpoweredRail};
 use kickguard::input::resistor::{resistor_window, InjectionLimits, UpperLimits};
 use kickguard::input::{Pin, SignalRange};
 use kickguard::pwm::{hold_duty, hysteretic, Freewheel, HoldOperatingPoint};
@@ -286,6 +286,15 @@ fn every_public_function_returns_promptly_on_hostile_input() {
         };
         let _ = pin.injection(vs, r);
         let _ = shared_clamp(&pin, &DiodeParams::SCHOTTKY, vs, r);
+        // Every input of a board at once: 64 sources, the most a design file allows.
+        let sources = [RailSource {
+            v_signal: vs,
+            r_series: r,
+            count: 1,
+        }; 64];
+        if let (Ok(load), Ok(allowed)) = (Ohms::new(220.0), Volts::new(0.5)) {
+            let _ = rail_off_together(&pin, &sources, &UnpoweredRail { load, allowed });
+        }
         let s = SignalRange {
             steady_min: Volts::new(0.0).unwrap(),
             steady_max: vs,

@@ -25,7 +25,9 @@ use kickguard::diagnosis::{Condition, Verdict, Windows};
 use kickguard::diode::{
     fit_three_points, fit_two_points, BandGap, Diode, DiodeParams, DropPoint, Ideality, Xti,
 };
-use kickguard::input::rail::{rail_off_check, RailLoad, UnpoweredRail};
+use kickguard::input::rail::{
+    rail_off_check, rail_off_together, RailLoad, RailSource, UnpoweredRail,
+};
 use kickguard::input::resistor::{
     max_resistor, min_resistor, InjectionLimits, LogicHigh, UpperLimits,
 };
@@ -439,6 +441,16 @@ proptest! {
             if let (Ok(load), Ok(allowed)) = (Ohms::new(c), Volts::new(d)) {
                 if let Ok(off) = rail_off_check(&pin, vsig, r, &UnpoweredRail { load, allowed }) {
                     prop_assert!(off.rail_voltage.value() >= 0.0 && off.current.value() >= 0.0);
+                }
+                // Several lines together: finite, never below one of them alone (KCL: more
+                // sources only add current into the same node).
+                let src = [RailSource { v_signal: vsig, r_series: r, count: 3 }];
+                if let (Ok(all), Ok(one)) = (
+                    rail_off_together(&pin, &src, &UnpoweredRail { load, allowed }),
+                    rail_off_check(&pin, vsig, r, &UnpoweredRail { load, allowed }),
+                ) {
+                    prop_assert!(all.rail_voltage.value().is_finite() && all.current.value().is_finite());
+                    prop_assert!(all.rail_voltage.value() >= one.rail_voltage.value() * (1.0 - 1e-4) - 1e-6);
                 }
             }
         }

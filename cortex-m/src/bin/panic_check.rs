@@ -416,7 +416,8 @@ fn timing_and_pwm() -> Result<(), Error> {
 fn input_protection() -> Result<(), Error> {
     use kickguard::input::board::{Board, BoardInput};
     use kickguard::input::rail::{
-        neighbour_adc_error, rail_off_check, shared_clamp, RailLoad, UnpoweredRail,
+        neighbour_adc_error, rail_off_check, rail_off_together, shared_clamp, RailLoad,
+        RailSource, UnpoweredRail,
     };
     use kickguard::input::resistor::{
         max_resistor, min_resistor, resistor_power, resistor_window, transient_energy,
@@ -489,6 +490,19 @@ fn input_protection() -> Result<(), Error> {
         r,
         &UnpoweredRail {
             load: Ohms::new(bb(1000.0))?,
+            allowed: Volts::new(bb(0.5))?,
+        },
+    )?);
+    let sources = [RailSource {
+        v_signal: s.steady_max,
+        r_series: r,
+        count: bb(4),
+    }; 2];
+    bb(rail_off_together(
+        &pin,
+        bb(&sources[..]),
+        &UnpoweredRail {
+            load: Ohms::new(bb(220.0))?,
             allowed: Volts::new(bb(0.5))?,
         },
     )?);
