@@ -9,7 +9,7 @@
 //! field_reference` rewrites the document; review the diff.
 
 use kickguard::host::file::{fields, ClampSpec, CoilSpec, DesignFile, DiagnosisSpec, Driver};
-use kickguard::host::file::{Environment, HoldSpec, Input, Pins, Supply, SwitchSpec};
+use kickguard::host::file::{Environment, EventSpec, HoldSpec, Input, Pins, Supply, SwitchSpec};
 use serde::de::{self, Deserialize, Visitor};
 
 /// A deserializer that records the field list serde asks for, then stops.
@@ -53,10 +53,11 @@ fn reference_fields(section: &str) -> Vec<&'static str> {
 
 #[test]
 fn the_reference_lists_exactly_what_the_parser_accepts() {
-    let tables: [(&str, Vec<&str>); 11] = [
+    let tables: [(&str, Vec<&str>); 12] = [
         ("", schema_fields::<DesignFile>()),
         ("environment", schema_fields::<Environment>()),
         ("supply", schema_fields::<Supply>()),
+        ("supply.event", schema_fields::<EventSpec>()),
         ("driver", schema_fields::<Driver>()),
         ("driver.coil", schema_fields::<CoilSpec>()),
         ("driver.switch", schema_fields::<SwitchSpec>()),
@@ -72,7 +73,7 @@ fn the_reference_lists_exactly_what_the_parser_accepts() {
         assert_eq!(&reference_fields(section), schema, "section [{section}]");
         assert!(sections.contains(section), "{section}");
     }
-    assert_eq!(sections.len(), 11, "{sections:?}");
+    assert_eq!(sections.len(), 12, "{sections:?}");
     // The per-kind rule reads every clamp field but `kind` from ClampSpec::present.
     let file = kickguard::host::file::parse_file(&kickguard::host::file::Reader::new(
         &std::fs::read_to_string("examples/greenhouse.toml").unwrap(),

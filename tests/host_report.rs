@@ -209,9 +209,7 @@ fn corners_and_the_box_are_numbers_in_the_json() {
     assert_eq!(axes[0]["value"].as_f64(), Some(26.4));
     assert_eq!(axes[0]["unit"], "V");
     assert_eq!(j["scope"].as_array().unwrap().len(), 1);
-    assert!(
-        output::text::render(&r).contains("NOT CHECKED: Supplies are checked over their steady")
-    );
+    assert!(output::text::render(&r).contains("NOT CHECKED: A supply without a profile"));
 }
 
 #[test]

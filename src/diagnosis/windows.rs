@@ -82,7 +82,7 @@ impl ShortedTurns {
                 resistance,
             } => {
                 for k in [inductance, resistance] {
-                    if !(k >= MIN_SHORTED_FACTOR && k <= 1.0) {
+                    if !(MIN_SHORTED_FACTOR..=1.0).contains(&k) {
                         return Err(Error::new("shorted turns", Reason::OutsideValidatedRange));
                     }
                 }

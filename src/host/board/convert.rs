@@ -191,6 +191,28 @@ fn driver(
         }
     };
     let supply = supply(f, r, &field, d.supply.get_ref())?;
+    let profile = match f
+        .supply
+        .iter()
+        .position(|s| s.name.get_ref() == d.supply.get_ref())
+    {
+        Some(k) => f
+            .supply
+            .get(k)
+            .map(|s| super::profile::convert(r, k, s))
+            .transpose()?
+            .flatten(),
+        None => None,
+    };
+    let winding_limit = r
+        .oq(
+            &d.coil.max_temperature,
+            &at("coil.max_temperature"),
+            Unit::Celsius,
+            range(0.0, 250.0, "0 … 250 °C"),
+        )?
+        .map(|t| celsius(r, &at("coil.max_temperature"), t))
+        .transpose()?;
     let (coil, l_tol, r_tol) = coil(r, &field, &d.coil)?;
     let (operate, release) = magnetic(r, &field, &d.coil, supply.nominal)?;
     let mech = r.oq(
@@ -238,6 +260,8 @@ fn driver(
         hold: super::hold::convert(r, &field, d, &clamp)?,
         diagnosis: super::diagnosis::convert(r, &field, d, &clamp, &supply)?,
         clamp,
+        profile,
+        winding_limit,
     })
 }
 

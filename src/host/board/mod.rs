@@ -10,6 +10,7 @@ mod convert;
 mod diagnosis;
 mod hold;
 mod inputs;
+pub mod profile;
 mod read;
 mod switch;
 
@@ -109,6 +110,10 @@ pub struct DriverBoard {
     pub hold: Option<HoldBoard>,
     /// Diagnosis, if wanted.
     pub diagnosis: Option<DiagnosisBoard>,
+    /// Its supply's transient events and reverse-polarity protection, if the file gives any.
+    pub profile: Option<profile::SupplyProfile>,
+    /// The winding's highest allowed temperature, if given.
+    pub winding_limit: Option<Temperature>,
 }
 
 /// The switch's ratings.

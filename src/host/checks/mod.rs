@@ -15,6 +15,7 @@ pub mod metric;
 pub mod open_clamp;
 pub mod propose;
 pub mod sized;
+pub mod supply;
 pub mod switch;
 pub mod timing;
 pub mod verdict;
@@ -104,6 +105,7 @@ pub fn driver_checks(
     diagnosis::checks(board, run, &mut out)?;
     let proposal = propose::checks(board, run, &mut out)?;
     open_clamp::require_detection(run, proposal.as_ref(), &mut out);
+    supply::checks(board, run, &mut out)?;
     Ok(out)
 }
 

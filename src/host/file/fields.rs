@@ -113,7 +113,14 @@ pub const FIELDS: &[Field] = &[
     f("supply", "name", "text", REQ, "the name drivers use"),
     f("supply", "nominal", "voltage", REQ, "nominal voltage"),
     f("supply", "min", "voltage", REQ, "lowest steady voltage (transients are not checked)"),
-    f("supply", "max", "voltage", REQ, "highest steady voltage (transients are not checked)"),
+    f("supply", "max", "voltage", REQ, "highest steady voltage"),
+    f("supply", "profile", "iso16750-2-12v, iso16750-2-12v-clamped, iso16750-2-24v, iso16750-2-24v-clamped or iec61131-2-24v", OPT, "a named set of transient events, each from the standard that defines it (load dump, overvoltage, jump start, reversed voltage, the rated range)"),
+    f("supply", "event", "array of tables", "none", "transient events of the design's own"),
+    f("supply", "reverse_protection", "\"none\", \"series-diode\" or \"mosfet\"", "\"none\"", "what blocks a reversed supply"),
+    f("supply", "wiring_resistance", "resistance", OPT, "wiring from the supply to the drivers, for the current of a reversed supply"),
+    f("supply.event", "name", "text", REQ, "the event's name"),
+    f("supply.event", "voltage", "voltage", REQ, "the supply's voltage during it (negative: reversed polarity)"),
+    f("supply.event", "duration", "time", REQ, "how long it lasts (10 s or more: the winding heats to its steady state)"),
     f("driver", "name", "text", REQ, "name; its identifier names the generated constants' module"),
     f("driver", "count", "integer 1 … 64", "1", "how many identical drivers"),
     f("driver", "supply", "text", REQ, "name of its supply"),
@@ -134,6 +141,7 @@ pub const FIELDS: &[Field] = &[
     f("driver.coil", "must_operate", "voltage, or percentage of rated_voltage", OPT, "must-operate voltage, a per-unit guarantee at resistance_at"),
     f("driver.coil", "must_release", "voltage, or percentage of rated_voltage", OPT, "must-release voltage, a per-unit guarantee at resistance_at"),
     f("driver.coil", "mechanical_release", "time", "0 s", "mechanical part of the release time"),
+    f("driver.coil", "max_temperature", "temperature", OPT, "the winding's highest allowed temperature (its insulation class), for long supply events"),
     f("driver.switch", "rating", "voltage", REQ, "voltage rating (for example V(BR)DSS minimum)"),
     f("driver.switch", "derating", "percentage", REQ, "share of the rating the peak may reach"),
     f("driver.switch", "avalanche", "voltage", REQ, "where the switch avalanches (what an open clamp lets it reach), at 1 A and 25 °C"),
@@ -223,7 +231,7 @@ pub fn markdown() -> std::string::String {
             section = Some(fl.section);
             let title = match fl.section {
                 "" => "top level",
-                "supply" | "driver" | "input" => "",
+                "supply" | "driver" | "input" | "supply.event" => "",
                 s => s,
             };
             let heading = if title.is_empty() {

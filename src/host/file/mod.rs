@@ -70,6 +70,27 @@ pub struct Supply {
     pub min: Q,
     /// Highest voltage.
     pub max: Q,
+    /// A named profile of transient events ("iso16750-2-12v", …); optional.
+    pub profile: Option<Spanned<String>>,
+    /// Events of the design's own: a voltage held for a duration.
+    #[serde(default)]
+    pub event: Vec<EventSpec>,
+    /// What protects against reversed polarity: "none" (default), "series-diode", "mosfet".
+    pub reverse_protection: Option<Spanned<String>>,
+    /// Wiring resistance from the supply to the drivers, for the reverse current; optional.
+    pub wiring_resistance: Option<Q>,
+}
+
+/// A transient event of a supply.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct EventSpec {
+    /// Its name.
+    pub name: Spanned<String>,
+    /// The supply's voltage during it (negative: reversed).
+    pub voltage: Q,
+    /// How long it lasts.
+    pub duration: Q,
 }
 
 /// A coil driver.
@@ -130,6 +151,8 @@ pub struct CoilSpec {
     pub must_release: Option<Q>,
     /// Mechanical release time; optional.
     pub mechanical_release: Option<Q>,
+    /// The winding's highest allowed temperature (its insulation class); optional.
+    pub max_temperature: Option<Q>,
 }
 
 /// The switch's ratings.

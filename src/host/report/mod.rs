@@ -22,7 +22,7 @@ pub const CAUTIONS: [&str; 3] = [
 
 /// What the checks do not cover, said in every report until the models cover it.
 pub const SCOPE: [&str; 1] = [
-    "Supplies are checked over their steady minimum … maximum only: load dump, jump start, surges and reverse polarity (ISO 16750-2, IEC 61131-2 and the like) are not checked.",
+    "A supply without a profile (supply.profile or [[supply.event]]) is checked over its steady minimum … maximum only; clamps shared by several drivers and the energy a fast decay returns to the supply rail are not checked.",
 ];
 
 /// Version of the JSON report's layout (`schema/report.schema.json`).

@@ -1,0 +1,349 @@
+//! The supply's transient events and reversed polarity, per driver (issue of the supply side;
+//! the profiles are in [`crate::host::board::profile`]).
+//!
+//! For an event with a positive voltage V_ev (a load dump, a jump start, an overvoltage):
+//! - **the switch when off** holds V_ev (through the coil on a low side, directly on a high
+//!   side): beyond its derated rating it is overstressed, and at or above its avalanche onset
+//!   it avalanches from the supply itself for the whole event, with energy only the supply's
+//!   source impedance limits: a failure either way;
+//! - **a switch-off during the event**: the coil's current taken at V_ev (it settles within a
+//!   few L/R; for an event shorter than that this overstates it) and every other axis of the
+//!   driver's box as usual; the peak across the switch against its derated rating, the clamp
+//!   below the switch's avalanche onset, the clamp part's energy against its rating; a clamp
+//!   across the switch at or below V_ev conducts from the supply and fails;
+//! - **the coil energised through a long event** (10 s or more): the winding's rise above the
+//!   hottest ambient scales with its power, V², so it reaches the design's self-heating ×
+//!   (V_ev/V_max)² (steady state, which overstates a shorter event), against
+//!   `coil.max_temperature` when given.
+//!
+//! For an event with a negative voltage (reversed polarity), with nothing in the supply to stop
+//! it: a clamp with a diode across the coil and nothing in series (a plain diode, an H-bridge,
+//! a switched freewheel whose bypass conducts) puts that diode in series with the switch's body
+//! diode straight across the reversed supply, a short only the wiring limits (a failure); a
+//! resistor in series limits it to (V − 2·V_F)/R; otherwise the body diode energises the coil
+//! in reverse at (V − V_F)/R_coil (a relay operates, a valve opens: said as a warning). A series
+//! diode or a reverse-polarity MOSFET in the supply blocks all of it. V_F = 0.7 V per silicon
+//! junction (common practice; a lower drop gives more current).
+//!
+//! Work: one sweep of the driver's vertices (no diagnosis, hold or open-clamp figures) per
+//! positive event.
+
+use super::{figure_check, Bound, Check, Corner, Limit, Outcome, Status, Unit};
+use crate::host::board::profile::{Event, Protection, SupplyProfile};
+use crate::host::board::{Board, ClampBoard, DriverBoard, SupplyRange};
+use crate::host::corners::{Axis, Space};
+use crate::host::engine::DriverRun;
+use crate::host::figures::{figures_with, Context, Needs};
+use crate::host::HostError;
+use crate::Reason;
+use std::format;
+use std::string::String;
+
+/// A silicon junction's forward drop in the reverse-polarity paths, V (common practice).
+pub const JUNCTION_V: f32 = 0.7;
+
+/// Events of 10 s or more heat the winding to its steady state.
+pub const LONG_EVENT_S: f32 = 10.0;
+
+/// The supply checks of one driver.
+///
+/// # Errors
+/// A model refusal at a vertex during an event, located at the supply's profile.
+pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+    let Some(p) = run.d.profile.as_ref() else {
+        return Ok(());
+    };
+    for e in &p.events {
+        if e.voltage > 0.0 {
+            off_state(run, e, out);
+            switch_off_during(board, run, p, e, out)?;
+            heating(board, run, e, out);
+        } else if e.voltage < 0.0 {
+            reversed(board, run, p, e, out);
+        }
+    }
+    Ok(())
+}
+
+/// The words of an event.
+fn words(e: &Event) -> String {
+    let d = if e.duration >= 1.0 {
+        format!("{:.0} s", e.duration)
+    } else {
+        format!("{:.0} ms", e.duration * 1e3)
+    };
+    format!("{} ({:.1} V for {d}; {})", e.name, e.voltage, e.source)
+}
+
+/// The lowest avalanche onset over the box (None where the switch is itself the clamp).
+fn onset_min(run: &DriverRun) -> Option<f32> {
+    run.figures
+        .iter()
+        .filter_map(|f| f.avalanche_onset)
+        .reduce(f32::min)
+}
+
+/// The switch while off, holding the event's voltage.
+fn off_state(run: &DriverRun, e: &Event, out: &mut Outcome) {
+    let d = &run.d;
+    let limit = d.switch.rating.value() * d.switch.derating.value();
+    let title = format!("switch off during {}", e.name);
+    let lim = Limit {
+        value: limit,
+        bound: Bound::AtMost,
+        source: format!(
+            "{:.0} % of the {} rating",
+            d.switch.derating.value() * 100.0,
+            d.switch.rating
+        ),
+    };
+    let mut c = Check::valued(
+        &d.name,
+        "event_off_state",
+        &title,
+        e.voltage,
+        Unit::Volt,
+        Some(lim),
+        Corner::Stated(words(e)),
+    );
+    let onset = onset_min(run);
+    c = match onset {
+        Some(v) if e.voltage >= v => c.with_status(Status::Fail).noted(format!("the supply alone reaches the switch's avalanche onset ({v:.2} V): it avalanches for the whole event with energy only the source impedance limits; a central clamp on the supply, or a switch rated above it")),
+        _ if c.status == Status::Fail => c.noted("the switch holds the supply while it is off: beyond its derated rating for the whole event"),
+        _ => c.noted("the switch holds the supply while it is off"),
+    };
+    out.checks.push(c);
+}
+
+/// The driver with its supply held at `v`.
+fn at_supply(d: &DriverBoard, v: f32) -> Result<DriverBoard, crate::Error> {
+    let mut d = d.clone();
+    let volts = crate::units::Volts::new(v)?;
+    d.supply = SupplyRange {
+        nominal: volts,
+        min: volts,
+        max: volts,
+    };
+    Ok(d)
+}
+
+/// A switch-off during the event: peak, clamp below the avalanche, clamp energy.
+fn switch_off_during(
+    board: &Board,
+    run: &DriverRun,
+    p: &SupplyProfile,
+    e: &Event,
+    out: &mut Outcome,
+) -> Result<(), HostError> {
+    let d = &run.d;
+    let fault = |x: crate::Error| {
+        board.fault(
+            &format!("{}.profile", p.field),
+            format!("during {}: the model refuses it: {x}", e.name),
+        )
+    };
+    let d_ev = at_supply(d, e.voltage).map_err(fault)?;
+    let space = Space::for_driver(board, &d_ev, run.rises);
+    let cx = Context {
+        board,
+        d: &d_ev,
+        release_voltage: None,
+        hold: None,
+        winding: space.range(Axis::Winding),
+    };
+    let none = Needs {
+        diag: false,
+        open: false,
+        hold: false,
+    };
+    let points = space.vertices();
+    let mut figures = std::vec::Vec::with_capacity(points.len());
+    for pt in &points {
+        match figures_with(&cx, pt, none) {
+            Ok(f) => figures.push(f),
+            Err(x) if x.reason == Reason::CannotClamp => {
+                out.checks.push(
+                    Check::worded(&d.name, "event_clamp_conducts", &format!("clamp during {}", e.name), Status::Fail, "conducts from the supply", Corner::Stated(words(e)))
+                        .noted("the clamp across the switch is at or below the event's supply voltage: it conducts from the supply for the whole event (and the coil never switches off); choose a clamp above the event's voltage"),
+                );
+                return Ok(());
+            }
+            Err(x) => return Err(fault(x)),
+        }
+    }
+    let ev = DriverRun {
+        d: d_ev.clone(),
+        space,
+        points,
+        figures,
+        ..run.clone()
+    };
+    let lim = Limit {
+        value: d.switch.rating.value() * d.switch.derating.value(),
+        bound: Bound::AtMost,
+        source: format!(
+            "{:.0} % of the {} rating",
+            d.switch.derating.value() * 100.0,
+            d.switch.rating
+        ),
+    };
+    if let Some(c) = figure_check(
+        &ev,
+        super::Metric::PeakSwitch,
+        "event_switch_voltage",
+        &format!("peak across the switch at a switch-off during {}", e.name),
+        Unit::Volt,
+        Some(lim),
+    ) {
+        out.checks.push(c.noted(format!("{}; the coil's current taken at the event's voltage (it settles within a few L/R; a shorter event gives less)", words(e))));
+    }
+    if let Some(c) = figure_check(
+        &ev,
+        super::Metric::AvalancheShare,
+        "event_clamp_below_avalanche",
+        &format!(
+            "peak at a switch-off during {} as a share of the switch's avalanche onset",
+            e.name
+        ),
+        Unit::Fraction,
+        Some(Limit {
+            value: 1.0,
+            bound: Bound::AtMost,
+            source: "the switch's avalanche onset at the same corner".into(),
+        }),
+    ) {
+        out.checks.push(c.noted(words(e)));
+    }
+    let rating = d.clamp.breakdown().and_then(|b| b.energy_rating);
+    if let (Some(r), true) = (rating, ev.figures.iter().any(|f| f.energy.breakdown > 0.0)) {
+        if let Some(c) = figure_check(
+            &ev,
+            super::Metric::EnergyBreakdown,
+            "event_breakdown_energy",
+            &format!(
+                "energy into the clamp part at a switch-off during {}",
+                e.name
+            ),
+            Unit::Joule,
+            Some(Limit {
+                value: r.value(),
+                bound: Bound::AtMost,
+                source: "its pulse energy rating".into(),
+            }),
+        ) {
+            out.checks.push(c.noted(words(e)));
+        }
+    }
+    Ok(())
+}
+
+/// The winding through a long event.
+fn heating(board: &Board, run: &DriverRun, e: &Event, out: &mut Outcome) {
+    let d = &run.d;
+    if e.duration < LONG_EVENT_S {
+        return;
+    }
+    let v_max = d.supply.max.value();
+    let rise = board.coil_heating.kelvin() * (e.voltage / v_max) * (e.voltage / v_max);
+    let t = board.ambient.1.celsius() + rise;
+    let limit = d.winding_limit.map(|w| Limit {
+        value: w.celsius(),
+        bound: Bound::AtMost,
+        source: "the winding's highest allowed temperature (coil.max_temperature)".into(),
+    });
+    let c = Check::valued(
+        &d.name,
+        "event_winding",
+        &format!("winding energised through {}", e.name),
+        t,
+        Unit::Celsius,
+        limit,
+        Corner::Stated(words(e)),
+    )
+    .noted(format!(
+        "hottest ambient {} + the self-heating {} × ({:.1} V / {:.1} V)² (copper loss scales with V²; steady state){}",
+        board.ambient.1,
+        board.coil_heating,
+        e.voltage,
+        v_max,
+        if d.winding_limit.is_none() { "; give coil.max_temperature to judge it" } else { "" }
+    ));
+    out.checks.push(c);
+}
+
+/// A breakdown part's lowest voltage over its tolerance (its temperature coefficient aside), V.
+fn lowest(b: &crate::host::board::BreakdownPart) -> Option<f32> {
+    b.voltage.map(|v| v.value() * (1.0 - b.tol))
+}
+
+/// The lowest coil resistance (coldest ambient, bottom of the tolerance), Ω.
+fn coil_r_min(board: &Board, d: &DriverBoard) -> f32 {
+    let cold = board.ambient.0;
+    let r = d
+        .coil
+        .resistance(cold)
+        .map_or(d.coil.resistance_ref().value(), |r| r.value());
+    r * (1.0 - d.r_tol)
+}
+
+/// Reversed polarity.
+fn reversed(board: &Board, run: &DriverRun, p: &SupplyProfile, e: &Event, out: &mut Outcome) {
+    let d = &run.d;
+    let v = -e.voltage;
+    let title = format!("{}: current with the supply reversed", e.name);
+    let id = "reverse_polarity";
+    let at = Corner::Stated(words(e));
+    if p.protection != Protection::None {
+        let by = if p.protection == Protection::SeriesDiode {
+            "a series diode"
+        } else {
+            "a reverse-polarity MOSFET"
+        };
+        out.checks.push(
+            Check::worded(&d.name, id, &title, Status::Pass, "blocked", at)
+                .noted(format!("{by} in the supply blocks the reversed voltage")),
+        );
+        return;
+    }
+    let r_coil = coil_r_min(board, d);
+    let through_coil = (v - JUNCTION_V).max(0.0) / r_coil;
+    // A breakdown part across the coil conducts once the reversed supply exceeds its lowest
+    // voltage plus the junctions in its path (the body diode, and a zener + diode's diode).
+    let breaks_down = match d.clamp {
+        ClampBoard::ZenerDiode { zener: b, .. } => {
+            lowest(&b).is_some_and(|vb| v > vb + 2.0 * JUNCTION_V)
+        }
+        ClampBoard::TvsAcrossCoil(b) | ClampBoard::Varistor { part: b, .. } => {
+            lowest(&b).is_some_and(|vb| v > vb + JUNCTION_V)
+        }
+        _ => false,
+    };
+    let diode_across = breaks_down
+        || matches!(
+            d.clamp,
+            ClampBoard::Diode(_) | ClampBoard::HBridge(_) | ClampBoard::SwitchedFreewheel { .. }
+        );
+    let c = if diode_across {
+        let shown = match p.wiring {
+            Some(w) => format!("{:.1} A", (v - 2.0 * JUNCTION_V).max(0.0) / w.value()),
+            None => String::from("limited only by the wiring"),
+        };
+        let mut c = Check::worded(&d.name, id, &title, Status::Fail, &shown, at).noted("the switch's body diode and the clamp across the coil (its diode, or its breakdown part once the reversed supply exceeds it) form a short across the reversed supply: add a series diode or a reverse-polarity MOSFET to the supply (supply.reverse_protection)");
+        if let Some(w) = p.wiring {
+            c.value = Some((v - 2.0 * JUNCTION_V).max(0.0) / w.value());
+            c.unit = Unit::Ampere;
+            c.note = format!("{} (two 0.7 V junctions and the wiring's {w})", c.note);
+        }
+        c
+    } else if let ClampBoard::ResistorDiode { resistor, .. } = d.clamp {
+        let i = (v - 2.0 * JUNCTION_V).max(0.0) / resistor.value().max(1e-3);
+        Check::valued(&d.name, id, &title, i + through_coil, Unit::Ampere, None, at)
+            .with_status(Status::Warn)
+            .noted(format!("the body diode and the clamp's diode put its {resistor} resistor across the reversed supply ({:.2} W in it for the event) and energise the coil in reverse: add a series diode or a reverse-polarity MOSFET (supply.reverse_protection)", i * i * resistor.value()))
+    } else {
+        Check::valued(&d.name, id, &title, through_coil, Unit::Ampere, None, at)
+            .with_status(Status::Warn)
+            .noted("the switch's body diode energises the coil in reverse ((V − 0.7 V)/R at the coldest, lowest-resistance winding): a relay operates, a valve opens; add a series diode or a reverse-polarity MOSFET if that is unsafe (supply.reverse_protection)")
+    };
+    out.checks.push(c);
+}

@@ -1,0 +1,195 @@
+//! The supply side against hand calculations: transient events (ISO 16750-2 and IEC 61131-2
+//! presets, the file's own events) and reversed polarity. The design is an invented test input
+//! with a fixed-drop diode and fixed resistances, so each figure is arithmetic: the peak across
+//! the switch at a switch-off is V_supply + the clamp's voltage across the coil, the winding's
+//! rise scales with its power V²/R (Joule heating; the design notes), a reversed supply drives
+//! (V − n·0.7 V)/R through n silicon junctions (common practice for the drop).
+
+mod common;
+
+use common::design;
+use kickguard::host::checks::{Check, Status};
+use kickguard::host::report::Report;
+use kickguard::host::{analyse_text, Options};
+
+fn analyse(text: &str) -> Report {
+    analyse_text(text, "supply.toml", &Options::default()).unwrap_or_else(|e| panic!("{e}"))
+}
+
+fn checks<'a>(r: &'a Report, id: &str) -> Vec<&'a Check> {
+    r.checks().filter(|c| c.id == id).collect()
+}
+
+const COIL: &str = "inductance = \"0.2 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"90 Ω\"\nresistance_tolerance = \"10 %\"\nresistance_at = \"none\"";
+const SWITCH: &str = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"";
+
+/// A 9 … 16 V relay driver with a fixed 0.8 V freewheel diode; `supply` extra lines go into
+/// the supply table (after the range).
+fn relay(supply: &str, clamp: &str, switch: &str) -> String {
+    design(
+        ("13.5 V", "9 V", "16 V"),
+        ("-40 °C", "85 °C", "15 K"),
+        COIL,
+        switch,
+        clamp,
+        "",
+    )
+    .replace("max = \"16 V\"\n", &format!("max = \"16 V\"\n{supply}\n"))
+}
+
+#[test]
+fn a_load_dump_unsuppressed_overwhelms_the_switch_while_it_is_off() {
+    // ISO 16750-2 test A, 12 V system: up to 101 V for up to 400 ms. Held by a switch whose
+    // avalanche starts at 66 V: it avalanches from the supply itself.
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v\"",
+        "kind = \"diode\"\ndiode = \"0.8 V\"",
+        SWITCH,
+    ));
+    let off = checks(&r, "event_off_state");
+    let dump = off.iter().find(|c| c.title.contains("load dump")).unwrap();
+    assert_eq!((dump.status, dump.value), (Status::Fail, Some(101.0)));
+    assert!(
+        dump.note.contains("avalanche onset (66.00 V)"),
+        "{}",
+        dump.note
+    );
+    assert!(r.failed());
+    // Centrally suppressed (test B): 35 V is held, and a switch-off during it peaks at
+    // 35 + 0.8 V (fixed drop) = 35.8 V, within 54 V.
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"",
+        "kind = \"diode\"\ndiode = \"0.8 V\"",
+        SWITCH,
+    ));
+    let peak = checks(&r, "event_switch_voltage");
+    let dump = peak.iter().find(|c| c.title.contains("load dump")).unwrap();
+    assert_eq!(dump.status, Status::Pass);
+    assert!(
+        (dump.value.unwrap() - 35.8).abs() < 1e-4,
+        "{:?}",
+        dump.value
+    );
+    // Jump start (24 V): 24.8 V; long-term overvoltage (18 V): 18.8 V.
+    for (name, v) in [("jump start", 24.8f32), ("long-term overvoltage", 18.8)] {
+        let c = peak.iter().find(|c| c.title.contains(name)).unwrap();
+        assert!((c.value.unwrap() - v).abs() < 1e-4, "{name}: {:?}", c.value);
+    }
+}
+
+#[test]
+fn a_clamp_across_the_switch_below_the_event_conducts_from_the_supply() {
+    // A 33 V TVS across the switch and a 35 V suppressed load dump: the TVS conducts from the
+    // supply for the whole event.
+    let tvs = "kind = \"tvs-across-switch\"\nvoltage = \"33 V\"\ntest_current = \"1 mA\"";
+    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", tvs, SWITCH));
+    let c = checks(&r, "event_clamp_conducts");
+    assert_eq!(c.len(), 1);
+    assert_eq!(c[0].status, Status::Fail);
+    assert!(c[0].title.contains("load dump"));
+}
+
+#[test]
+fn a_long_event_heats_the_winding_with_the_square_of_the_voltage() {
+    // 15 K of self-heating at the 16 V maximum; 18 V for 60 min gives 15·(18/16)² = 18.984 K
+    // above the 85 °C ambient: 103.98 °C, against a class-A winding limit of 105 °C (passes);
+    // the jump start's 24 V for 60 s: 15·(24/16)² = 33.75 K, 118.75 °C (fails).
+    let coil = format!("{COIL}\nmax_temperature = \"105 °C\"");
+    let text = relay(
+        "profile = \"iso16750-2-12v-clamped\"",
+        "kind = \"diode\"\ndiode = \"0.8 V\"",
+        SWITCH,
+    )
+    .replace(COIL, &coil);
+    let r = analyse(&text);
+    let w = checks(&r, "event_winding");
+    let over = w.iter().find(|c| c.title.contains("long-term")).unwrap();
+    assert!((over.value.unwrap() - (85.0 + 15.0 * (18.0f32 / 16.0).powi(2))).abs() < 1e-3);
+    assert_eq!(over.status, Status::Pass);
+    let jump = w.iter().find(|c| c.title.contains("jump")).unwrap();
+    assert!(
+        (jump.value.unwrap() - 118.75).abs() < 1e-3,
+        "{:?}",
+        jump.value
+    );
+    assert_eq!(jump.status, Status::Fail);
+    // The 400 ms load dump is too short to heat the winding to its steady state: no check.
+    assert!(!w.iter().any(|c| c.title.contains("load dump")));
+}
+
+#[test]
+fn reversed_polarity_by_topology() {
+    let diode = "kind = \"diode\"\ndiode = \"0.8 V\"";
+    // ISO 16750-2 reversed voltage, 12 V system: 14 V (from memory). A plain freewheel diode
+    // and the switch's body diode short the reversed supply: with 0.1 Ω of wiring,
+    // (14 − 2·0.7)/0.1 = 126 A.
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"\nwiring_resistance = \"0.1 Ω\"",
+        diode,
+        SWITCH,
+    ));
+    let c = checks(&r, "reverse_polarity");
+    assert_eq!(c[0].status, Status::Fail);
+    assert!(
+        (c[0].value.unwrap() - 126.0).abs() < 1e-3,
+        "{:?}",
+        c[0].value
+    );
+    // Without a wiring resistance: the short is stated without a number.
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"",
+        diode,
+        SWITCH,
+    ));
+    let c = checks(&r, "reverse_polarity");
+    assert_eq!(
+        (c[0].status, c[0].shown.as_deref()),
+        (Status::Fail, Some("limited only by the wiring"))
+    );
+    // A series diode blocks it.
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"\nreverse_protection = \"series-diode\"",
+        diode,
+        SWITCH,
+    ));
+    assert_eq!(checks(&r, "reverse_polarity")[0].status, Status::Pass);
+    // A clamp across the switch: the body diode energises the coil in reverse, at
+    // (14 − 0.7)/(90·0.9) = 0.1642 A (the lowest resistance): a warning without a limit.
+    let tvs = "kind = \"tvs-across-switch\"\nvoltage = \"40 V\"\ntest_current = \"1 mA\"";
+    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", tvs, SWITCH));
+    let c = checks(&r, "reverse_polarity");
+    assert_eq!(c[0].status, Status::Warn);
+    assert!(c[0].limit.is_none());
+    assert!(
+        (c[0].value.unwrap() - 13.3 / 81.0).abs() < 1e-4,
+        "{:?}",
+        c[0].value
+    );
+    // A 6.8 V zener + diode across the coil breaks down under 14 V (14 > 6.8 + 1.4): a short.
+    let z = "kind = \"zener+diode\"\ndiode = \"0.8 V\"\nvoltage = \"6.8 V\"";
+    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", z, SWITCH));
+    assert_eq!(checks(&r, "reverse_polarity")[0].status, Status::Fail);
+    // An 18 V zener does not (14 < 18 + 1.4): the coil path only.
+    let z = "kind = \"zener+diode\"\ndiode = \"0.8 V\"\nvoltage = \"18 V\"";
+    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", z, SWITCH));
+    assert_eq!(checks(&r, "reverse_polarity")[0].status, Status::Warn);
+}
+
+#[test]
+fn events_of_the_design_and_unknown_profiles() {
+    let diode = "kind = \"diode\"\ndiode = \"0.8 V\"";
+    let ev = "[[supply.event]]\nname = \"crank\"\nvoltage = \"6 V\"\nduration = \"20 ms\"";
+    let text = relay("", diode, SWITCH).replace("[[driver]]", &format!("{ev}\n\n[[driver]]"));
+    let r = analyse(&text);
+    let c = checks(&r, "event_switch_voltage");
+    assert_eq!(c.len(), 1);
+    assert!((c[0].value.unwrap() - 6.8).abs() < 1e-4 && c[0].note.contains("design file"));
+    let bad = relay("profile = \"iso7637-2\"", diode, SWITCH);
+    let e = analyse_text(&bad, "s.toml", &Options::default())
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.contains("supply[0].profile") && e.contains("iso16750-2-12v"),
+        "{e}"
+    );
+}
