@@ -58,6 +58,7 @@ pub mod pwm;
 pub mod rating;
 pub mod slots;
 mod solve;
+pub mod supply;
 pub mod timing;
 pub mod units;
 pub mod varistor;

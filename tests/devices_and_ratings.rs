@@ -305,3 +305,59 @@ fn zener_window_edges_meet_their_requirements() {
         Reason::OutsideValidatedRange
     );
 }
+
+#[test]
+fn a_returned_energy_charges_the_bulk_capacitor() {
+    use kickguard::supply::rail_rise;
+    use kickguard::{Farads, Joules, Reason};
+    // Energy of a capacitor, ½·C·V² (any circuit text): 100 mJ into 1000 µF at 24 V with no
+    // load gives √(576 + 2·0.1/1e-3) = √776 = 27.857 V.
+    let c = Farads::new(1e-3).unwrap();
+    let v = rail_rise(
+        c,
+        Volts::new(24.0).unwrap(),
+        Joules::new(0.1).unwrap(),
+        Amps::new(0.0).unwrap(),
+        Seconds::new(0.0).unwrap(),
+    )
+    .unwrap();
+    assert!((v.value() as f64 - 776f64.sqrt()).abs() < 1e-4);
+    // Loads drawing 0.5 A for 5 ms take 24·0.5·0.005 = 60 mJ of it: √(576 + 2·0.04/1e-3).
+    let v = rail_rise(
+        c,
+        Volts::new(24.0).unwrap(),
+        Joules::new(0.1).unwrap(),
+        Amps::new(0.5).unwrap(),
+        Seconds::new(5e-3).unwrap(),
+    )
+    .unwrap();
+    assert!((v.value() as f64 - 656f64.sqrt()).abs() < 1e-4);
+    // Loads that draw more than is returned leave the rail where the supply holds it.
+    let v = rail_rise(
+        c,
+        Volts::new(24.0).unwrap(),
+        Joules::new(0.01).unwrap(),
+        Amps::new(1.0).unwrap(),
+        Seconds::new(1.0).unwrap(),
+    )
+    .unwrap();
+    assert_eq!(v.value(), 24.0);
+    let e = rail_rise(
+        c,
+        Volts::new(24.0).unwrap(),
+        Joules::new(-0.1).unwrap(),
+        Amps::new(0.0).unwrap(),
+        Seconds::new(0.0).unwrap(),
+    )
+    .unwrap_err();
+    assert_eq!((e.input, e.reason), ("returned energy", Reason::Negative));
+    let e = rail_rise(
+        c,
+        Volts::new(0.0).unwrap(),
+        Joules::new(0.1).unwrap(),
+        Amps::new(0.0).unwrap(),
+        Seconds::new(0.0).unwrap(),
+    )
+    .unwrap_err();
+    assert_eq!((e.input, e.reason), ("rail voltage", Reason::NotPositive));
+}

@@ -193,3 +193,111 @@ fn events_of_the_design_and_unknown_profiles() {
         "{e}"
     );
 }
+
+#[test]
+fn a_fast_decay_returns_energy_that_charges_the_bulk_capacitor() {
+    // An H-bridge fast decay on 24 V (fixed), 0.35 H, 56 Ω, fixed 0.8 V diodes: the coil sees
+    // V_c = 24 + 2·0.8 = 25.6 V, so the current reaches zero with the charge
+    // Q = τ·[I₀ − a·ln(1 + I₀/a)], a = V_c/R (the closed form in the file's header), and the
+    // supply takes back V_s·Q. Two channels at once into 470 µF, the loads drawing at least
+    // 0.1 A for the shortest decay t (to 1 % of I₀): ½·C·(V₂² − V₁²) = 2·V_s·Q − V₁·0.1·t.
+    let coil = "inductance = \"0.35 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"56 Ω\"\nresistance_tolerance = \"0 %\"\nresistance_at = \"none\"";
+    let text = design(
+        ("24 V", "24 V", "24 V"),
+        ("25 °C", "55 °C", "0 K"),
+        coil,
+        SWITCH,
+        "kind = \"h-bridge\"\ndiode = \"0.8 V\"",
+        "count = 2",
+    )
+    .replace(
+        "max = \"24 V\"\n",
+        "max = \"24 V\"\nbulk_capacitance = \"470 µF\"\nrail_load = \"0.1 A\"\nrail_limit = \"30 V\"\n",
+    );
+    let r = analyse(&text);
+    let (l, res, vs) = (0.35f64, 56.0f64, 24.0f64);
+    let (tau, i0, a) = (l / res, vs / res, 25.6 / res);
+    let q = tau * (i0 - a * (1.0 + i0 / a).ln());
+    let e = vs * q;
+    let got = checks(&r, "returned_energy")[0].value.unwrap() as f64;
+    assert!((got - e).abs() < 2e-4 * e, "{got} vs {e}");
+    let t1 = tau * ((i0 + a) / (0.01 * i0 + a)).ln();
+    let v2 = (vs * vs + 2.0 * (2.0 * e - vs * 0.1 * t1) / 470e-6).sqrt();
+    let rise = checks(&r, "rail_rise")[0];
+    assert!(
+        (rise.value.unwrap() as f64 - v2).abs() < 1e-3 * v2,
+        "{:?} vs {v2}",
+        rise.value
+    );
+    assert_eq!(
+        rise.status,
+        if v2 <= 30.0 {
+            Status::Pass
+        } else {
+            Status::Fail
+        }
+    );
+    // A supply that sinks current takes it; without a bulk capacitance it is not judged.
+    let sinks = text.replace("bulk_capacitance = \"470 µF\"\n", "sinks_current = true\n");
+    assert_eq!(
+        checks(&analyse(&sinks), "rail_rise")[0].status,
+        Status::Pass
+    );
+    let bare = text.replace("bulk_capacitance = \"470 µF\"\n", "");
+    let c = analyse(&bare);
+    let c = checks(&c, "rail_rise");
+    assert_eq!(
+        (c[0].status, c[0].shown.as_deref()),
+        (Status::Warn, Some("not judged"))
+    );
+    // A freewheel across the coil returns nothing: no such check.
+    let local = text.replace("kind = \"h-bridge\"", "kind = \"diode\"");
+    assert!(checks(&analyse(&local), "returned_energy").is_empty());
+}
+
+#[test]
+fn a_shared_zener_carries_every_channel_at_once() {
+    // Three channels of one driver share an 18 V zener (datasheet line: 18 V at 10 mA, 2 Ω,
+    // no tempco, no tolerance) behind fixed 0.8 V diodes, on a fixed 24 V supply with 56 Ω,
+    // 0.35 H coils. Every channel switching off at once puts 3·24/56 = 1.2857 A through it:
+    // V_z = 18 − 2·0.01 + 2·1.2857 = 20.551 V, and each switch peaks at 24 + 20.551 + 0.8 V
+    // (the datasheet line is linear in the current: arithmetic).
+    let coil = "inductance = \"0.35 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"56 Ω\"\nresistance_tolerance = \"0 %\"\nresistance_at = \"none\"";
+    let clamp = "kind = \"zener+diode\"\ndiode = \"0.8 V\"\nvoltage = \"18 V\"\ntest_current = \"10 mA\"\ndynamic_resistance = \"2 Ω\"\nenergy_rating = \"200 mJ\"\nshared = \"common\"";
+    let text = design(
+        ("24 V", "24 V", "24 V"),
+        ("25 °C", "55 °C", "0 K"),
+        coil,
+        SWITCH,
+        clamp,
+        "count = 3\nswitching_rate = \"1 Hz\"",
+    );
+    let r = analyse(&text);
+    let i0 = 24.0f64 / 56.0;
+    let cur = checks(&r, "shared_current")[0].value.unwrap() as f64;
+    assert!((cur - 3.0 * i0).abs() < 1e-5, "{cur}");
+    let peak = checks(&r, "shared_switch_voltage")[0].value.unwrap() as f64;
+    let vz = 18.0 - 2.0 * 0.01 + 2.0 * 3.0 * i0;
+    assert!(
+        (peak - (24.0 + vz + 0.8)).abs() < 1e-4,
+        "{peak} vs {}",
+        24.0 + vz + 0.8
+    );
+    // The energy per event: three channels, each decaying into a zener raised by the two
+    // others' current, 2·2·I₀ = 1.714 V: the zener line V = 17.98 + 1.714 + 2·i, so with the
+    // diode the loop is affine, V_c = 20.494 V and R_total = 58 Ω (closed form; the zener
+    // takes V_z(i)·i, the diode 0.8·i): E_z = ∫(19.694 + 2·i)·i dt over the decay to zero.
+    let (l, rt) = (0.35f64, 58.0f64);
+    let vc = 17.98 + 4.0 * i0 + 0.8;
+    let (tau, a) = (l / rt, vc / rt);
+    let q = tau * (i0 - a * (1.0 + i0 / a).ln());
+    let t_end = tau * (1.0 + i0 / a).ln();
+    let i2 = (i0 + a).powi(2) * tau / 2.0 * (1.0 - (-2.0 * t_end / tau).exp())
+        - 2.0 * a * (i0 + a) * tau * (1.0 - (-t_end / tau).exp())
+        + a * a * t_end;
+    let e_z = (vc - 0.8) * q + 2.0 * i2;
+    let e = checks(&r, "shared_energy")[0].value.unwrap() as f64;
+    assert!((e - 3.0 * e_z).abs() < 3e-4 * e, "{e} vs {}", 3.0 * e_z);
+    let p = checks(&r, "shared_power")[0].value.unwrap() as f64;
+    assert!((p - e).abs() < 1e-6 * e); // 1 Hz
+}

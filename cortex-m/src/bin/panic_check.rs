@@ -498,6 +498,13 @@ fn input_protection() -> Result<(), Error> {
         r_series: r,
         count: bb(4),
     }; 2];
+    bb(kickguard::supply::rail_rise(
+        kickguard::Farads::new(bb(470e-6))?,
+        Volts::new(bb(24.0))?,
+        kickguard::Joules::new(bb(0.05))?,
+        Amps::new(bb(0.1))?,
+        kickguard::Seconds::new(bb(1e-3))?,
+    )?);
     bb(rail_off_together(
         &pin,
         bb(&sources[..]),

@@ -262,6 +262,11 @@ fn driver(
         clamp,
         profile,
         winding_limit,
+        shared: d
+            .clamp
+            .shared
+            .as_ref()
+            .map(|g| g.get_ref().trim().to_string()),
     })
 }
 

@@ -114,6 +114,8 @@ pub struct DriverBoard {
     pub profile: Option<profile::SupplyProfile>,
     /// The winding's highest allowed temperature, if given.
     pub winding_limit: Option<Temperature>,
+    /// The group whose channels share the clamp's breakdown part, if any.
+    pub shared: Option<String>,
 }
 
 /// The switch's ratings.

@@ -25,7 +25,7 @@ use super::read::{range, ReadQ};
 use crate::host::file::quantity::Unit;
 use crate::host::file::{self, Reader};
 use crate::host::HostError;
-use crate::units::Ohms;
+use crate::units::{Farads, Ohms};
 use std::format;
 use std::string::{String, ToString};
 use std::vec::Vec;
@@ -66,6 +66,14 @@ pub struct SupplyProfile {
     /// The wiring's resistance from the supply to the driver, for the reverse current, if
     /// given.
     pub wiring: Option<Ohms>,
+    /// Whether the supply sinks current (then returned energy is taken by it).
+    pub sinks: bool,
+    /// The rail's bulk capacitance, if given.
+    pub bulk: Option<Farads>,
+    /// The least current the rail's loads draw during a decay, A.
+    pub load: f32,
+    /// The highest voltage the parts on the rail tolerate, if given.
+    pub limit: Option<f32>,
 }
 
 fn event(name: &str, voltage: f32, duration: f32, source: &str) -> Event {
@@ -193,7 +201,33 @@ pub fn convert(
         )?
         .map(|w| Ohms::new(w).map_err(|e| r.model(&at("wiring_resistance"), e)))
         .transpose()?;
-    if events.is_empty() && s.reverse_protection.is_none() && wiring.is_none() {
+    let bulk = r
+        .oq(
+            &s.bulk_capacitance,
+            &at("bulk_capacitance"),
+            Unit::Farad,
+            range(1e-9, 10.0, "1 nF … 10 F"),
+        )?
+        .map(|c| Farads::new(c).map_err(|e| r.model(&at("bulk_capacitance"), e)))
+        .transpose()?;
+    let load = r
+        .oq(
+            &s.rail_load,
+            &at("rail_load"),
+            Unit::Amp,
+            range(0.0, 1e3, "0 … 1000 A"),
+        )?
+        .unwrap_or(0.0);
+    let limit = r.oq(
+        &s.rail_limit,
+        &at("rail_limit"),
+        Unit::Volt,
+        range(0.1, 1e4, "0.1 V … 10 kV"),
+    )?;
+    let sinks = s.sinks_current.as_ref().is_some_and(|b| *b.get_ref());
+    let any_rail =
+        s.sinks_current.is_some() || bulk.is_some() || s.rail_load.is_some() || limit.is_some();
+    if events.is_empty() && s.reverse_protection.is_none() && wiring.is_none() && !any_rail {
         return Ok(None);
     }
     Ok(Some(SupplyProfile {
@@ -201,5 +235,9 @@ pub fn convert(
         events,
         protection,
         wiring,
+        sinks,
+        bulk,
+        load,
+        limit,
     }))
 }

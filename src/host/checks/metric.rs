@@ -35,6 +35,8 @@ pub enum Metric {
     EnergyResistor,
     /// Energy into the switch per switch-off (max).
     EnergySwitch,
+    /// Energy returned to the supply per switch-off (max).
+    EnergyReturned,
     /// Average power in the clamp diode (max).
     PowerDiode,
     /// Average power in the zener, TVS or varistor (max).
@@ -79,7 +81,7 @@ pub enum Metric {
 
 impl Metric {
     /// Every figure but the diagnosis readings (which take a measurement and a condition).
-    pub const SCALAR: [Metric; 27] = [
+    pub const SCALAR: [Metric; 28] = [
         Metric::PeakSwitch,
         Metric::AvalancheShare,
         Metric::PeakOutputLow,
@@ -92,6 +94,7 @@ impl Metric {
         Metric::EnergyBreakdown,
         Metric::EnergyResistor,
         Metric::EnergySwitch,
+        Metric::EnergyReturned,
         Metric::PowerDiode,
         Metric::PowerBreakdown,
         Metric::PowerSwitch,
@@ -140,6 +143,7 @@ impl Metric {
             Metric::EnergyBreakdown => Some(f.energy.breakdown),
             Metric::EnergyResistor => Some(f.energy.resistor),
             Metric::EnergySwitch => Some(f.energy.switch),
+            Metric::EnergyReturned => Some(f.energy.returned),
             Metric::PowerDiode => Some(pw().diode),
             Metric::PowerBreakdown => Some(pw().breakdown),
             Metric::PowerSwitch => Some(pw().switch),

@@ -14,6 +14,7 @@ pub mod inputs;
 pub mod metric;
 pub mod open_clamp;
 pub mod propose;
+pub mod shared;
 pub mod sized;
 pub mod supply;
 pub mod switch;

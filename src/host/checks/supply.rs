@@ -50,6 +50,7 @@ pub const LONG_EVENT_S: f32 = 10.0;
 /// # Errors
 /// A model refusal at a vertex during an event, located at the supply's profile.
 pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+    returned(board, run, out)?;
     let Some(p) = run.d.profile.as_ref() else {
         return Ok(());
     };
@@ -62,6 +63,91 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
             reversed(board, run, p, e, out);
         }
     }
+    Ok(())
+}
+
+/// The energy a fast decay returns to the supply, and the rail's rise from it (model in
+/// [`crate::supply`]): per switch-off of one channel and of every channel of the driver at
+/// once. Only a decay that drives the coil's current back into the supply returns energy (an
+/// H-bridge's fast decay); a freewheel across the coil keeps it local and a clamp across the
+/// switch draws from the supply instead. Worst corner: the most energy returned, the highest
+/// supply, the shortest decay (least drawn by the loads meanwhile).
+fn returned(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+    let d = &run.d;
+    if !run.figures.iter().any(|f| f.energy.returned > 0.0) {
+        return Ok(());
+    }
+    let fault = |x: crate::Error| board.fault(&format!("{}.supply", d.field), format!("{x}"));
+    let Some(c) = figure_check(
+        run,
+        super::Metric::EnergyReturned,
+        "returned_energy",
+        "energy returned to the supply per switch-off",
+        Unit::Joule,
+        None,
+    ) else {
+        return Ok(());
+    };
+    let e = c.value.unwrap_or(0.0);
+    out.checks.push(
+        c.noted("the fast decay drives the coil's current back into the supply's positive node"),
+    );
+    let title = "supply rail after every channel switches off at once";
+    let p = d.profile.as_ref();
+    if p.is_some_and(|p| p.sinks) {
+        out.checks.push(
+            Check::worded(
+                &d.name,
+                "rail_rise",
+                title,
+                Status::Pass,
+                "taken by the supply",
+                Corner::Ties,
+            )
+            .noted("the supply sinks current (supply.sinks_current)"),
+        );
+        return Ok(());
+    }
+    let Some(bulk) = p.and_then(|p| p.bulk) else {
+        out.checks.push(
+            Check::worded(&d.name, "rail_rise", title, Status::Warn, "not judged", Corner::Ties)
+                .noted("not judged: give supply.bulk_capacitance (and rail_load, rail_limit), or supply.sinks_current = true for a supply that takes it back"),
+        );
+        return Ok(());
+    };
+    let t_min = run
+        .figures
+        .iter()
+        .map(|f| f.off_time)
+        .fold(f32::INFINITY, f32::min);
+    let load = p.map_or(0.0, |p| p.load);
+    let v1 = d.supply.max;
+    let rise = |n: f32| -> Result<f32, crate::Error> {
+        Ok(crate::supply::rail_rise(
+            bulk,
+            v1,
+            crate::units::Joules::new(e * n)?,
+            crate::units::Amps::new(load)?,
+            crate::units::Seconds::new(t_min)?,
+        )?
+        .value())
+    };
+    let one = rise(1.0).map_err(fault)?;
+    let all = rise(d.count as f32).map_err(fault)?;
+    let limit = p.and_then(|p| p.limit).map(|l| Limit {
+        value: l,
+        bound: Bound::AtMost,
+        source: "what the parts on the rail tolerate (supply.rail_limit)".into(),
+    });
+    let c = Check::valued(&d.name, "rail_rise", title, all, Unit::Volt, limit, Corner::Stated(format!("highest supply {v1}, the most energy returned, the shortest decay")))
+        .noted(format!(
+            "½·C·(V₂² − V₁²) = E − V₁·I_load·t with C = {bulk}, {} channel(s) returning {:.3} mJ each, loads ≥ {load:.3} A for {:.3} ms; one channel alone: {one:.2} V{}",
+            d.count,
+            e * 1e3,
+            t_min * 1e3,
+            if p.and_then(|p| p.limit).is_none() { "; give supply.rail_limit to judge it" } else { "" }
+        ));
+    out.checks.push(c);
     Ok(())
 }
 

@@ -84,6 +84,8 @@ pub struct Energies {
     pub resistor: f32,
     /// Into the switch (its avalanche or its own clamp).
     pub switch: f32,
+    /// Returned to the supply (an H-bridge's fast decay drives the current back into it).
+    pub returned: f32,
 }
 
 /// The open-clamp fault at one point.
@@ -226,6 +228,7 @@ fn healthy(
                     breakdown: part(e.zener.value() + e.varistor.value()),
                     resistor: part(e.resistor.value()),
                     switch: part(e.switch.value()),
+                    returned: (-e.from_supply.value()).max(0.0),
                 },
             })
         }

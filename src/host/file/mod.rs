@@ -79,6 +79,15 @@ pub struct Supply {
     pub reverse_protection: Option<Spanned<String>>,
     /// Wiring resistance from the supply to the drivers, for the reverse current; optional.
     pub wiring_resistance: Option<Q>,
+    /// Whether the supply sinks current (a battery does; a regulator or a supply behind a
+    /// series diode does not); default false.
+    pub sinks_current: Option<Spanned<bool>>,
+    /// The rail's bulk capacitance, which takes the energy a fast decay returns; optional.
+    pub bulk_capacitance: Option<Q>,
+    /// The least current the rail's loads draw while a decay returns energy; optional (0).
+    pub rail_load: Option<Q>,
+    /// The highest voltage the parts on the rail tolerate; optional.
+    pub rail_limit: Option<Q>,
 }
 
 /// A transient event of a supply.
@@ -226,12 +235,15 @@ pub struct ClampSpec {
     pub resistor: Option<Q>,
     /// Snubber capacitor (rc-snubber).
     pub capacitor: Option<Q>,
+    /// The name of a group whose channels share this clamp's breakdown part (a common zener
+    /// or TVS across every channel's coil, as driver arrays have); optional.
+    pub shared: Option<Spanned<String>>,
 }
 
 impl ClampSpec {
     /// Every field but `kind`, by name, with whether the file gives it (the per-kind rule in
     /// [`fields`] reads this; `tests/field_reference.rs` holds the names to the schema).
-    pub fn present(&self) -> [(&'static str, Option<std::ops::Range<usize>>); 17] {
+    pub fn present(&self) -> [(&'static str, Option<std::ops::Range<usize>>); 18] {
         let q = |x: &Option<Q>| x.as_ref().map(|v| v.span());
         [
             ("diode", q(&self.diode)),
@@ -254,6 +266,7 @@ impl ClampSpec {
             ("gate_threshold", q(&self.gate_threshold)),
             ("resistor", q(&self.resistor)),
             ("capacitor", q(&self.capacitor)),
+            ("shared", self.shared.as_ref().map(|v| v.span())),
         ]
     }
 }

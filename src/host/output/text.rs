@@ -167,7 +167,10 @@ pub fn render(r: &Report) -> String {
         driver(&mut out, d, samples);
     }
     if !r.board.checks.is_empty() {
-        let _ = writeln!(out, "\n== inputs into the microcontroller ==");
+        let _ = writeln!(
+            out,
+            "\n== the board: inputs into the microcontroller and shared parts =="
+        );
         for c in &r.board.checks {
             let _ = writeln!(out, "  [{}]", c.subject);
             check(&mut out, c, None);

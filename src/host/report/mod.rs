@@ -22,7 +22,7 @@ pub const CAUTIONS: [&str; 3] = [
 
 /// What the checks do not cover, said in every report until the models cover it.
 pub const SCOPE: [&str; 1] = [
-    "A supply without a profile (supply.profile or [[supply.event]]) is checked over its steady minimum … maximum only; clamps shared by several drivers and the energy a fast decay returns to the supply rail are not checked.",
+    "A supply without a profile (supply.profile or [[supply.event]]) is checked over its steady minimum … maximum only.",
 ];
 
 /// Version of the JSON report's layout (`schema/report.schema.json`).
@@ -184,6 +184,9 @@ pub fn build(board: &Board, mc: Option<Request>) -> Result<Report, HostError> {
         .map(|(k, r)| driver(board, k, r, mc))
         .collect::<Result<Vec<_>, _>>()?;
     let mut inputs = checks::inputs::checks(board, &runs)?;
+    inputs
+        .checks
+        .extend(checks::shared::checks(board, &runs)?.checks);
     inputs
         .constants
         .insert(0, checks::diagnosis::tick_constant(board));
