@@ -416,8 +416,8 @@ fn timing_and_pwm() -> Result<(), Error> {
 fn input_protection() -> Result<(), Error> {
     use kickguard::input::board::{Board, BoardInput};
     use kickguard::input::rail::{
-        neighbour_adc_error, rail_off_check, rail_off_together, shared_clamp, RailLoad,
-        RailSource, UnpoweredRail,
+        neighbour_adc_error, rail_off_check, rail_off_together, shared_clamp, RailLoad, RailSource,
+        UnpoweredRail,
     };
     use kickguard::input::resistor::{
         max_resistor, min_resistor, resistor_power, resistor_window, transient_energy,

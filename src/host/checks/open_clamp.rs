@@ -32,7 +32,7 @@ pub fn count_words(n: f32) -> String {
     if n >= REPETITIVE {
         "repetitively, within its thermal limits".into()
     } else if n < 1.0 {
-        "none: one open-clamp switch-off exceeds its avalanche rating".into()
+        "none: a single avalanche pulse exceeds the switch's derated rating".into()
     } else if n < 2.0 {
         "one".into()
     } else {
