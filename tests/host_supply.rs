@@ -308,7 +308,11 @@ fn the_switchs_own_avalanche_is_judged_by_its_energy_during_an_event() {
     // what decides is whether the switch survives one switch-off while the supply is raised,
     // the supply adding V·Q to its avalanche energy (the design notes' clamp-at-the-switch law).
     let sw = "rating = \"60 V\"\nderating = \"90 %\"\navalanche = \"66 V\"\navalanche_energy = \"1 J\"\njunction_max = \"150 °C\"";
-    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", "kind = \"avalanche\"", sw));
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"",
+        "kind = \"avalanche\"",
+        sw,
+    ));
     for c in checks(&r, "event_switch_voltage") {
         assert!(c.limit.is_none() && c.status == Status::Info, "{c:?}");
         assert!((c.value.unwrap() - 66.0).abs() < 1e-3);
@@ -319,7 +323,14 @@ fn the_switchs_own_avalanche_is_judged_by_its_energy_during_an_event() {
     // With a small rating a single pulse during the load dump is too much: 35 V leaves
     // 66 − 35 = 31 V across the coil, so the energy ½·L·I²·66/31 (R → 0 bound) exceeds 10 mJ.
     let small = sw.replace("1 J", "10 mJ");
-    let r = analyse(&relay("profile = \"iso16750-2-12v-clamped\"", "kind = \"avalanche\"", &small));
-    let dump = checks(&r, "event_switch_survival").into_iter().find(|c| c.title.contains("load dump")).unwrap();
+    let r = analyse(&relay(
+        "profile = \"iso16750-2-12v-clamped\"",
+        "kind = \"avalanche\"",
+        &small,
+    ));
+    let dump = checks(&r, "event_switch_survival")
+        .into_iter()
+        .find(|c| c.title.contains("load dump"))
+        .unwrap();
     assert_eq!(dump.status, Status::Fail);
 }
