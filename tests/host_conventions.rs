@@ -375,13 +375,26 @@ fn proposed_comparator_sits_between_health_and_avalanche() {
         "{}",
         inv.note
     );
-    // The same fault given as factors reads the same windows.
+    // A 10 % share covers the two common models, L × 0.81 (L·(1 − f)²) to L × 0.90 (L·(1 − f)),
+    // R × 0.9 = 50.4 Ω: the time from 300 to 100 mA is (L'/R')·ln((0.3 + a)/(0.1 + a)),
+    // a = 0.8/50.4 (closed form above), in whole 1 MHz ticks widened by the 2-tick jitter. The
+    // same fault given as the factors 81 % and 90 % is the lower end alone.
+    let t_of = |fl: f64| {
+        let (rs, a): (f64, f64) = (56.0 * 0.9, 0.8 / (56.0 * 0.9));
+        0.35 * fl / rs * ((0.3 + a) / (0.1 + a)).ln()
+    };
+    let row = |r: &kickguard::host::report::Report| r.drivers[0].outcome.windows[0].rows[3];
+    let lo = (t_of(0.81) * 1e6).floor() as u32 - 2;
+    assert_eq!(row(&r), [lo, (t_of(0.9) * 1e6).ceil() as u32 + 2, 4]);
     let factors = diag.replace(
         "shorted_turns = \"10 %\"",
         "shorted_inductance = \"81 %\"\nshorted_resistance = \"90 %\"",
     );
     let r2 = analyse(&(open_clamp_design("", "") + &factors));
-    assert_eq!(r.drivers[0].outcome.windows, r2.drivers[0].outcome.windows);
+    assert_eq!(row(&r2), [lo, (t_of(0.81) * 1e6).ceil() as u32 + 2, 4]);
+    assert!(check(&r, "coil", "diagnosis_shorted_turns")
+        .note
+        .contains("L × 0.810 … 0.900"));
     // One form only.
     let both = diag.replace(
         "shorted_turns = \"10 %\"",
@@ -549,4 +562,46 @@ fn an_auto_zener_keeps_its_margin() {
         .unwrap_err()
         .to_string();
     assert!(e.contains("driver[0].clamp.voltage_margin"), "{e}");
+}
+
+#[test]
+fn comparator_windows_cover_the_threshold_tolerance() {
+    // Resistor (56 Ω) + a fixed 0.8 V diode across a 0.35 H, 56 Ω coil on 24 V: the switch
+    // holds 24 + 0.8 + 56·i, above a 40 V comparator while i > (V_th − 24.8)/56, which the
+    // current reaches after (L/R_t)·ln((I₀ + a)/(i_th + a)), R_t = 112 Ω, a = 0.8/112 (closed
+    // form above). A ±2 % threshold moves i_th both ways: the healthy window runs from the
+    // time at 1.02·40 V to the time at 0.98·40 V, whole 1 MHz ticks widened by the jitter.
+    let coil = "inductance = \"0.35 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"56 Ω\"\nresistance_tolerance = \"0 %\"\nresistance_at = \"none\"";
+    let diag = "[driver.diagnosis]\ncomparator = [\"40 V\"]\nguard = \"0 %\"\njitter = \"1 ticks\"\nshorted_turns = \"10 %\"\ncomparator_tolerance = \"2 %\"";
+    let text = design(
+        ("24 V", "24 V", "24 V"),
+        ("25 °C", "55 °C", "0 K"),
+        coil,
+        PLAIN_SWITCH,
+        "kind = \"resistor+diode\"\ndiode = \"0.8 V\"\nresistor = \"56 Ω\"",
+        "",
+    ) + diag;
+    let r = analyse(&text);
+    let t_at = |th: f64| {
+        let (i0, a): (f64, f64) = (24.0 / 56.0, 0.8 / 112.0);
+        let i_th = (th - 24.8) / 56.0;
+        0.35 / 112.0 * ((i0 + a) / (i_th + a)).ln()
+    };
+    let healthy = r.drivers[0].outcome.windows[0].rows[0];
+    assert_eq!(
+        healthy,
+        [
+            (t_at(40.8) * 1e6).floor() as u32 - 1,
+            (t_at(39.2) * 1e6).ceil() as u32 + 1,
+            0
+        ]
+    );
+    // Without the tolerance: the nominal threshold alone, a narrower window.
+    let exact = analyse(&text.replace("comparator_tolerance = \"2 %\"", ""));
+    let nominal = exact.drivers[0].outcome.windows[0].rows[0];
+    assert_eq!(nominal[0], (t_at(40.0) * 1e6).floor() as u32 - 1);
+    assert!(nominal[0] > healthy[0] && nominal[1] < healthy[1]);
+    assert!(check(&r, "coil", "diagnosis_shorted_turns")
+        .note
+        .contains("comparator thresholds ±2.0 %"));
 }

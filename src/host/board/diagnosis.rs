@@ -68,14 +68,17 @@ fn measurements(
     Ok(out)
 }
 
-/// The shorted-turns fault's (L, R) factors: from `shorted_turns` (a share f of the turns:
-/// L·(1 − f)², R·(1 − f), common practice) or from `shorted_inductance` and
-/// `shorted_resistance`, exactly one of the two forms.
+/// The shorted-turns fault's L factor range and R factor: from `shorted_turns` (a share f of
+/// the turns: R·(1 − f) with the wire's length, and L anywhere between the two common models,
+/// L·(1 − f)² where it goes with the square of the turns and L·(1 − f) where the shorted turns
+/// hardly change the magnetic path; common practice, so a real coil falls inside the range)
+/// or from `shorted_inductance` and `shorted_resistance` (one model, as measured), exactly one
+/// of the two forms.
 fn shorted(
     r: &Reader<'_>,
     at: &dyn Fn(&str) -> String,
     g: &file::DiagnosisSpec,
-) -> Result<(f32, f32), HostError> {
+) -> Result<((f32, f32), f32), HostError> {
     let share = range(0.01, 0.9, "1 … 90 %");
     let left = range(0.01, 0.99, "1 … 99 %");
     match (
@@ -85,12 +88,15 @@ fn shorted(
     ) {
         (Some(q), None, None) => {
             let f = r.q(q, &at("shorted_turns"), Unit::Percent, share)?;
-            Ok(((1.0 - f) * (1.0 - f), 1.0 - f))
+            Ok((((1.0 - f) * (1.0 - f), 1.0 - f), 1.0 - f))
         }
-        (None, Some(l), Some(rr)) => Ok((
-            r.q(l, &at("shorted_inductance"), Unit::Percent, left)?,
-            r.q(rr, &at("shorted_resistance"), Unit::Percent, left)?,
-        )),
+        (None, Some(l), Some(rr)) => {
+            let l = r.q(l, &at("shorted_inductance"), Unit::Percent, left)?;
+            Ok((
+                (l, l),
+                r.q(rr, &at("shorted_resistance"), Unit::Percent, left)?,
+            ))
+        }
         (Some(_), _, _) => Err(r.at(
             &at("shorted_turns"),
             "give shorted_turns or shorted_inductance with shorted_resistance, not both",
@@ -159,7 +165,16 @@ pub fn convert(
         )?
         .map(|v| Volts::new(v).map_err(|e| r.model(&at("comparator_reference"), e)))
         .transpose()?;
+    let comparator_tolerance = r
+        .oq(
+            &g.comparator_tolerance,
+            &at("comparator_tolerance"),
+            Unit::Percent,
+            range(0.0, 0.2, "0 … 20 %"),
+        )?
+        .unwrap_or(0.0);
     Ok(Some(DiagnosisBoard {
+        comparator_tolerance,
         reference,
         measurements,
         guard: Duty::new(guard).map_err(|e| r.model(&at("guard"), e))?,

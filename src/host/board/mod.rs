@@ -348,8 +348,12 @@ pub struct DiagnosisBoard {
     pub guard: Duty,
     /// Timing jitter of the firmware's measurement, ticks.
     pub jitter_ticks: u32,
-    /// The shorted-turns fault's factors on (L, R), each in (0, 1).
-    pub shorted: (f32, f32),
+    /// The shorted-turns fault: the range of its inductance factor (lowest, highest) and its
+    /// resistance factor, each in (0, 1).
+    pub shorted: ((f32, f32), f32),
+    /// Relative tolerance of every comparator threshold (divider and comparator), an axis of
+    /// its windows.
+    pub comparator_tolerance: f32,
     /// How many fault readings in a row the firmware waits for.
     pub confirmations: u32,
     /// The comparator's reference voltage, if given (the proposed comparator's divider ratio

@@ -54,11 +54,80 @@ pub fn measurement_words(m: &MeasureBoard) -> String {
     }
 }
 
-/// The tick windows of measurement `k` under every condition that applies.
+/// The tick windows of measurement `k` under every condition that applies, over the
+/// comparator threshold's tolerance (`diagnosis.comparator_tolerance`) as one more axis: the
+/// reading of a comparator is monotone in its threshold, so the windows at its two ends and
+/// the nominal, united per condition, hold every threshold in between.
+///
+/// # Errors
+/// A reading beyond the timer's range; a model refusal at a shifted threshold.
+pub fn windows(board: &Board, run: &DriverRun, k: usize) -> Result<Vec<Window>, HostError> {
+    let mut ws = windows_at(board, run, k)?;
+    let Some(g) = run.d.diagnosis.as_ref() else {
+        return Ok(ws);
+    };
+    let (tol, Some(MeasureBoard::Comparator(th))) =
+        (g.comparator_tolerance, g.measurements.get(k).copied())
+    else {
+        return Ok(ws);
+    };
+    if !(tol > 0.0) {
+        return Ok(ws);
+    }
+    for scale in [1.0 - tol, 1.0 + tol] {
+        let shifted = crate::units::Volts::new(th.value() * scale).map_err(|e| {
+            board.fault(
+                &format!("{}.diagnosis.comparator", run.d.field),
+                format!("{e}"),
+            )
+        })?;
+        let mut ms = g.measurements.clone();
+        if let Some(m) = ms.get_mut(k) {
+            *m = MeasureBoard::Comparator(shifted);
+        }
+        let again = with_measurements(board, run, ms)?;
+        for w in windows_at(board, &again, k)? {
+            match ws.iter_mut().find(|x| x.condition == w.condition) {
+                Some(x) => {
+                    x.seconds = (x.seconds.0.min(w.seconds.0), x.seconds.1.max(w.seconds.1));
+                    x.ticks = (x.ticks.0.min(w.ticks.0), x.ticks.1.max(w.ticks.1));
+                }
+                None => ws.push(w),
+            }
+        }
+    }
+    Ok(ws)
+}
+
+/// The driver's run again with `measurements` as its diagnosis measurements (the same vertices
+/// and self-heating).
+///
+/// # Errors
+/// A model refusal at a vertex.
+pub fn with_measurements(
+    board: &Board,
+    run: &DriverRun,
+    measurements: Vec<MeasureBoard>,
+) -> Result<DriverRun, HostError> {
+    let mut d = run.d.clone();
+    if let Some(g) = d.diagnosis.as_mut() {
+        g.measurements = measurements;
+    }
+    let mut cx = run.context(board);
+    cx.d = &d;
+    let figures = crate::host::engine::sweep(&cx, &run.space, &run.points)?;
+    Ok(DriverRun {
+        d,
+        figures,
+        ..run.clone()
+    })
+}
+
+/// The tick windows of measurement `k` at its nominal threshold.
 ///
 /// # Errors
 /// A reading beyond the timer's range.
-pub fn windows(board: &Board, run: &DriverRun, k: usize) -> Result<Vec<Window>, HostError> {
+fn windows_at(board: &Board, run: &DriverRun, k: usize) -> Result<Vec<Window>, HostError> {
     let Some(g) = run.d.diagnosis.as_ref() else {
         return Ok(Vec::new());
     };
@@ -182,6 +251,22 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
             }
         }
     }
+    let ((l_lo, l_hi), fr) = g.shorted;
+    let model = if l_hi > l_lo {
+        format!(
+            "; shorted turns modelled as L × {l_lo:.3} … {l_hi:.3} (from L·(1 − f)² to L·(1 − f), the two common models) and R × {fr:.3}"
+        )
+    } else {
+        format!("; shorted turns modelled as L × {l_lo:.3} and R × {fr:.3} (as given)")
+    };
+    let tol = if g.comparator_tolerance > 0.0 {
+        format!(
+            "; comparator thresholds ±{:.1} %",
+            g.comparator_tolerance * 100.0
+        )
+    } else {
+        String::new()
+    };
     for (cond, yes, no) in per {
         let title = format!("diagnosis: {}", condition_words(cond));
         let id = format!("diagnosis_{}", condition_words(cond).replace(' ', "_"));
@@ -198,6 +283,15 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
                 Corner::Stated("every corner".into()),
             )
             .noted(yes.join("; "))
+        };
+        let c = if cond == Condition::ShortedTurns {
+            let note = format!("{}{model}{tol}", c.note);
+            c.noted(note)
+        } else if tol.is_empty() {
+            c
+        } else {
+            let note = format!("{}{tol}", c.note);
+            c.noted(note)
         };
         out.checks.push(c);
     }

@@ -158,12 +158,13 @@ impl Metric {
             Metric::HoldUnbypassed => h.and_then(|h| h.unbypassed_zener_power),
             Metric::PullIn => h.and_then(|h| h.pull_in_time),
             Metric::HoldCoil => h.map(|h| h.coil_power),
-            Metric::Diag { m, c, .. } => f
+            Metric::Diag { m, c, high } => f
                 .diag
                 .get(m as usize)
                 .and_then(|row| row.get(c as usize))
                 .copied()
-                .flatten(),
+                .flatten()
+                .map(|(lo, hi)| if high { hi } else { lo }),
         }
     }
 

@@ -23,7 +23,7 @@ use super::diagnosis::{condition_words, windows};
 use super::{Check, Constant, Corner, Metric, Outcome, Status, WindowTable};
 use crate::diagnosis::Condition;
 use crate::host::board::{Board, MeasureBoard};
-use crate::host::engine::{sweep, DriverRun};
+use crate::host::engine::DriverRun;
 use crate::host::HostError;
 use crate::units::Volts;
 use std::format;
@@ -75,23 +75,18 @@ fn threshold(h: f32, a: f32) -> Option<f32> {
     (h < th * (1.0 - tol) && th * (1.0 + tol) < a).then_some(th)
 }
 
-/// The driver's run again with `th` as its only measurement.
+/// The driver's run again with `th` as its only measurement, judged over the proposal's own
+/// ±[`COMPARATOR_TOLERANCE`] (the windows cover every threshold the divider and the comparator
+/// can give).
 fn with_comparator(board: &Board, run: &DriverRun, th: f32) -> Result<DriverRun, HostError> {
-    let mut d = run.d.clone();
-    if let Some(g) = d.diagnosis.as_mut() {
-        g.measurements =
-            Vec::from([MeasureBoard::Comparator(Volts::new(th).map_err(|e| {
-                board.fault(&format!("{}.diagnosis", run.d.field), format!("{e}"))
-            })?)]);
+    let th = Volts::new(th)
+        .map_err(|e| board.fault(&format!("{}.diagnosis", run.d.field), format!("{e}")))?;
+    let mut again =
+        super::diagnosis::with_measurements(board, run, Vec::from([MeasureBoard::Comparator(th)]))?;
+    if let Some(g) = again.d.diagnosis.as_mut() {
+        g.comparator_tolerance = COMPARATOR_TOLERANCE;
     }
-    let mut cx = run.context(board);
-    cx.d = &d;
-    let figures = sweep(&cx, &run.space, &run.points)?;
-    Ok(DriverRun {
-        d,
-        figures,
-        ..run.clone()
-    })
+    Ok(again)
 }
 
 /// Sizes and judges the proposed comparator; None when no threshold fits.

@@ -5,9 +5,10 @@
 //! - clamp path open: the switch's own avalanche at its tolerance and temperature axes;
 //! - zener shorted (zener + diode, switched freewheel): the diode alone;
 //! - coil open: no current, every measurement reads zero;
-//! - shorted turns, a share f of the turns: L·(1 − f)², R·(1 − f) (inductance goes with the
-//!   square of the turns, resistance with the wire length: common practice), or the L and R
-//!   factors the file gives;
+//! - shorted turns, a share f of the turns: R·(1 − f) (with the wire's length) and L anywhere
+//!   from L·(1 − f)² (with the square of the turns) to L·(1 − f) (the two common models;
+//!   the reading is monotone in the L factor, so both ends bound it), or the L and R factors
+//!   the file gives;
 //! - coil too hot: the winding axis mapped onto the 50 K above the hottest allowed winding.
 
 use super::profile::{self, MAX_CURRENTS};
@@ -87,8 +88,14 @@ pub fn measure(
     Ok(decay)
 }
 
-/// The circuit of a fault condition at `p`, or None where it does not apply (or has no decay).
-fn fault_circuit(cx: &Context<'_>, cond: Condition, p: &Point) -> Result<Option<Circuit>, Error> {
+/// The circuit of a fault condition at `p`, or None where it does not apply (or has no decay);
+/// `upper` picks the upper end of a condition's model range (the shorted turns' L factor).
+fn fault_circuit(
+    cx: &Context<'_>,
+    cond: Condition,
+    p: &Point,
+    upper: bool,
+) -> Result<Option<Circuit>, Error> {
     let d = cx.d;
     Ok(match cond {
         Condition::Healthy => Some(parts::circuit_at(d, p)?),
@@ -103,7 +110,11 @@ fn fault_circuit(cx: &Context<'_>, cond: Condition, p: &Point) -> Result<Option<
         },
         Condition::CoilOpen => None,
         Condition::ShortedTurns => {
-            let (fl, fr) = cx.d.diagnosis.as_ref().map_or((1.0, 1.0), |g| g.shorted);
+            let ((l_lo, l_hi), fr) =
+                cx.d.diagnosis
+                    .as_ref()
+                    .map_or(((1.0, 1.0), 1.0), |g| g.shorted);
+            let fl = if upper { l_hi } else { l_lo };
             let mut c = parts::circuit_at(d, p)?;
             c.coil = c.coil.scaled(fl, fr)?;
             c.op.start_current = c.coil.steady_current(c.op.supply, c.op.winding)?;
@@ -130,24 +141,41 @@ fn fault_circuit(cx: &Context<'_>, cond: Condition, p: &Point) -> Result<Option<
 pub fn faults(
     cx: &Context<'_>,
     p: &Point,
-    out: &mut [[Option<f32>; 6]; MAX_MEASUREMENTS],
+    out: &mut [[Option<(f32, f32)>; 6]; MAX_MEASUREMENTS],
 ) -> Result<(), Error> {
     let Some(g) = cx.d.diagnosis.as_ref() else {
         return Ok(());
     };
+    let ((l_lo, l_hi), _) = g.shorted;
     for (ci, cond) in Condition::ALL.iter().enumerate().skip(1) {
-        let mut values = [None; MAX_MEASUREMENTS];
-        if *cond == Condition::CoilOpen {
-            values
-                .iter_mut()
-                .take(g.measurements.len())
-                .for_each(|v| *v = Some(0.0));
-        } else if let Some(c) = fault_circuit(cx, *cond, p)? {
-            if let Off::Engine(off) = c.switch_off()? {
-                measure(&off, false, &[], &g.measurements, &mut [], &mut values)?;
+        // The shorted turns take both ends of their model range (when it is one).
+        let ends: &[bool] = if *cond == Condition::ShortedTurns && l_hi > l_lo {
+            &[false, true]
+        } else {
+            &[false]
+        };
+        let mut pairs: [Option<(f32, f32)>; MAX_MEASUREMENTS] = [None; MAX_MEASUREMENTS];
+        for &upper in ends {
+            let mut values = [None; MAX_MEASUREMENTS];
+            if *cond == Condition::CoilOpen {
+                values
+                    .iter_mut()
+                    .take(g.measurements.len())
+                    .for_each(|v| *v = Some(0.0));
+            } else if let Some(c) = fault_circuit(cx, *cond, p, upper)? {
+                if let Off::Engine(off) = c.switch_off()? {
+                    measure(&off, false, &[], &g.measurements, &mut [], &mut values)?;
+                }
+            }
+            for (pair, v) in pairs.iter_mut().zip(values) {
+                *pair = match (*pair, v) {
+                    (None, Some(x)) => Some((x, x)),
+                    (Some((a, b)), Some(x)) => Some((a.min(x), b.max(x))),
+                    (keep, None) => keep,
+                };
             }
         }
-        for (row, v) in out.iter_mut().zip(values) {
+        for (row, v) in out.iter_mut().zip(pairs) {
             if let Some(slot) = row.get_mut(ci) {
                 *slot = v;
             }

@@ -139,8 +139,10 @@ pub struct Figures {
     /// The PWM hold, if the driver holds.
     pub hold: Option<HoldFigures>,
     /// Diagnosis: the measured time of each measurement under each condition (in
-    /// [`crate::diagnosis::Condition::ALL`] order), s; None where it does not apply.
-    pub diag: [[Option<f32>; 6]; MAX_MEASUREMENTS],
+    /// [`crate::diagnosis::Condition::ALL`] order), s, as (lowest, highest) over what the
+    /// condition leaves open at this point (the shorted-turn models' range); None where it does
+    /// not apply.
+    pub diag: [[Option<(f32, f32)>; 6]; MAX_MEASUREMENTS],
 }
 
 /// The healthy switch-off: peak switch and output voltages, off time, release time, energies.
@@ -300,7 +302,7 @@ pub fn figures_with(cx: &Context<'_>, p: &Point, needs: Needs) -> Result<Figures
     let mut diag = [[None; 6]; MAX_MEASUREMENTS];
     if needs.diag {
         for (row, v) in diag.iter_mut().zip(healthy_diag) {
-            row[0] = v;
+            row[0] = v.map(|x| (x, x));
         }
         diag::faults(cx, p, &mut diag)?;
     }

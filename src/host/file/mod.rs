@@ -312,6 +312,8 @@ pub struct DiagnosisSpec {
     pub confirmations: Option<Spanned<u32>>,
     /// The comparator's reference voltage, for the proposed comparator's divider ratio.
     pub comparator_reference: Option<Q>,
+    /// Relative tolerance of the comparator thresholds (divider and comparator); optional (0).
+    pub comparator_tolerance: Option<Q>,
 }
 
 /// The microcontroller pins.
