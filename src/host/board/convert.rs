@@ -180,39 +180,9 @@ fn driver(
     if !(1..=64).contains(&count) {
         return Err(r.error(d.count.span(), &at("count"), "must be 1 … 64"));
     }
-    let side = match d.side.as_ref().map(|s| s.get_ref().as_str()) {
-        None | Some("low") => Side::Low,
-        Some("high") => Side::High,
-        Some(other) => {
-            return Err(r.at(
-                &at("side"),
-                format!("\"{other}\" is not a side; expected \"low\" or \"high\""),
-            ))
-        }
-    };
+    let side = side(r, &at("side"), d)?;
     let supply = supply(f, r, &field, d.supply.get_ref())?;
-    let profile = match f
-        .supply
-        .iter()
-        .position(|s| s.name.get_ref() == d.supply.get_ref())
-    {
-        Some(k) => f
-            .supply
-            .get(k)
-            .map(|s| super::profile::convert(r, k, s))
-            .transpose()?
-            .flatten(),
-        None => None,
-    };
-    let winding_limit = r
-        .oq(
-            &d.coil.max_temperature,
-            &at("coil.max_temperature"),
-            Unit::Celsius,
-            range(0.0, 250.0, "0 … 250 °C"),
-        )?
-        .map(|t| celsius(r, &at("coil.max_temperature"), t))
-        .transpose()?;
+    let (profile, winding_limit) = supply_side(f, r, &field, d)?;
     let (coil, l_tol, r_tol) = coil(r, &field, &d.coil)?;
     let (operate, release) = magnetic(r, &field, &d.coil, supply.nominal)?;
     let mech = r.oq(
@@ -268,6 +238,52 @@ fn driver(
             .as_ref()
             .map(|g| g.get_ref().trim().to_string()),
     })
+}
+
+/// Where the driver's switch sits.
+fn side(r: &Reader<'_>, field: &str, d: &file::Driver) -> Result<Side, HostError> {
+    match d.side.as_ref().map(|s| s.get_ref().as_str()) {
+        None | Some("low") => Ok(Side::Low),
+        Some("high") => Ok(Side::High),
+        Some(other) => Err(r.at(
+            field,
+            format!("\"{other}\" is not a side; expected \"low\" or \"high\""),
+        )),
+    }
+}
+
+/// The driver's supply profile (its supply's events and protection) and its winding limit.
+#[allow(clippy::type_complexity)]
+fn supply_side(
+    f: &DesignFile,
+    r: &Reader<'_>,
+    field: &str,
+    d: &file::Driver,
+) -> Result<(Option<super::profile::SupplyProfile>, Option<Temperature>), HostError> {
+    let profile = match f
+        .supply
+        .iter()
+        .position(|s| s.name.get_ref() == d.supply.get_ref())
+    {
+        Some(k) => f
+            .supply
+            .get(k)
+            .map(|s| super::profile::convert(r, k, s))
+            .transpose()?
+            .flatten(),
+        None => None,
+    };
+    let at = format!("{field}.coil.max_temperature");
+    let winding_limit = r
+        .oq(
+            &d.coil.max_temperature,
+            &at,
+            Unit::Celsius,
+            range(0.0, 250.0, "0 … 250 °C"),
+        )?
+        .map(|t| celsius(r, &at, t))
+        .transpose()?;
+    Ok((profile, winding_limit))
 }
 
 fn coil(r: &Reader<'_>, field: &str, c: &file::CoilSpec) -> Result<(Coil, f32, f32), HostError> {

@@ -181,17 +181,7 @@ pub fn convert(
             source: "design file".into(),
         });
     }
-    let protection = match s.reverse_protection.as_ref().map(|p| p.get_ref().trim()) {
-        None | Some("none") => Protection::None,
-        Some("series-diode") => Protection::SeriesDiode,
-        Some("mosfet") => Protection::Mosfet,
-        Some(other) => {
-            return Err(r.at(
-                &at("reverse_protection"),
-                format!("\"{other}\" is not a protection; expected \"none\", \"series-diode\" or \"mosfet\""),
-            ))
-        }
-    };
+    let protection = protection(r, &at("reverse_protection"), s)?;
     let wiring = r
         .oq(
             &s.wiring_resistance,
@@ -201,6 +191,45 @@ pub fn convert(
         )?
         .map(|w| Ohms::new(w).map_err(|e| r.model(&at("wiring_resistance"), e)))
         .transpose()?;
+    let (sinks, bulk, load, limit) = rail(r, &at, s)?;
+    let any_rail =
+        s.sinks_current.is_some() || bulk.is_some() || s.rail_load.is_some() || limit.is_some();
+    if events.is_empty() && s.reverse_protection.is_none() && wiring.is_none() && !any_rail {
+        return Ok(None);
+    }
+    Ok(Some(SupplyProfile {
+        field,
+        events,
+        protection,
+        wiring,
+        sinks,
+        bulk,
+        load,
+        limit,
+    }))
+}
+
+/// What blocks a reversed supply.
+fn protection(r: &Reader<'_>, field: &str, s: &file::Supply) -> Result<Protection, HostError> {
+    match s.reverse_protection.as_ref().map(|p| p.get_ref().trim()) {
+        None | Some("none") => Ok(Protection::None),
+        Some("series-diode") => Ok(Protection::SeriesDiode),
+        Some("mosfet") => Ok(Protection::Mosfet),
+        Some(other) => Err(r.at(
+            field,
+            format!("\"{other}\" is not a protection; expected \"none\", \"series-diode\" or \"mosfet\""),
+        )),
+    }
+}
+
+/// The rail's fields for returned energy: (sinks current, bulk capacitance, load current A,
+/// limit V).
+#[allow(clippy::type_complexity)]
+fn rail(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    s: &file::Supply,
+) -> Result<(bool, Option<Farads>, f32, Option<f32>), HostError> {
     let bulk = r
         .oq(
             &s.bulk_capacitance,
@@ -225,19 +254,5 @@ pub fn convert(
         range(0.1, 1e4, "0.1 V … 10 kV"),
     )?;
     let sinks = s.sinks_current.as_ref().is_some_and(|b| *b.get_ref());
-    let any_rail =
-        s.sinks_current.is_some() || bulk.is_some() || s.rail_load.is_some() || limit.is_some();
-    if events.is_empty() && s.reverse_protection.is_none() && wiring.is_none() && !any_rail {
-        return Ok(None);
-    }
-    Ok(Some(SupplyProfile {
-        field,
-        events,
-        protection,
-        wiring,
-        sinks,
-        bulk,
-        load,
-        limit,
-    }))
+    Ok((sinks, bulk, load, limit))
 }

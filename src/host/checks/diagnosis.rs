@@ -216,57 +216,9 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
                 .map(|w| [w.ticks.0, w.ticks.1, w.condition.code()])
                 .collect(),
         });
-        for w in ws.iter().filter(|w| w.condition != Condition::Healthy) {
-            let entry = match per.iter().position(|x| x.0 == w.condition) {
-                Some(i) => i,
-                None => {
-                    per.push((w.condition, Vec::new(), Vec::new()));
-                    per.len() - 1
-                }
-            };
-            let text = format!(
-                "{}: {} against healthy {}",
-                measurement_words(m),
-                window_words(m, w),
-                window_words(m, &h)
-            );
-            let others: Vec<&str> = ws
-                .iter()
-                .filter(|o| {
-                    o.condition != Condition::Healthy
-                        && o.condition != w.condition
-                        && overlap(o.ticks, w.ticks)
-                })
-                .map(|o| condition_words(o.condition))
-                .collect();
-            if let Some(slot) = per.get_mut(entry) {
-                if overlap(w.ticks, h.ticks) {
-                    slot.2.push(text);
-                } else if others.is_empty() {
-                    slot.1.push(text);
-                } else {
-                    slot.1
-                        .push(format!("{text}; shares ticks with {}", others.join(", ")));
-                }
-            }
-        }
+        sort_readings(m, &ws, &h, &mut per);
     }
-    let ((l_lo, l_hi), fr) = g.shorted;
-    let model = if l_hi > l_lo {
-        format!(
-            "; shorted turns modelled as L × {l_lo:.3} … {l_hi:.3} (from L·(1 − f)² to L·(1 − f), the two common models) and R × {fr:.3}"
-        )
-    } else {
-        format!("; shorted turns modelled as L × {l_lo:.3} and R × {fr:.3} (as given)")
-    };
-    let tol = if g.comparator_tolerance > 0.0 {
-        format!(
-            "; comparator thresholds ±{:.1} %",
-            g.comparator_tolerance * 100.0
-        )
-    } else {
-        String::new()
-    };
+    let (model, tol) = assumptions(g);
     for (cond, yes, no) in per {
         let title = format!("diagnosis: {}", condition_words(cond));
         let id = format!("diagnosis_{}", condition_words(cond).replace(' ', "_"));
@@ -284,18 +236,82 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
             )
             .noted(yes.join("; "))
         };
-        let c = if cond == Condition::ShortedTurns {
-            let note = format!("{}{model}{tol}", c.note);
-            c.noted(note)
-        } else if tol.is_empty() {
-            c
+        let extra = if cond == Condition::ShortedTurns {
+            format!("{model}{tol}")
         } else {
-            let note = format!("{}{tol}", c.note);
-            c.noted(note)
+            tol.clone()
         };
-        out.checks.push(c);
+        let note = format!("{}{extra}", c.note);
+        out.checks.push(c.noted(note));
     }
     Ok(())
+}
+
+/// Each fault's windows of measurement `m` in words, sorted into those that separate from the
+/// healthy one (`.1`) and those that share ticks with it (`.2`).
+#[allow(clippy::type_complexity)]
+fn sort_readings(
+    m: &MeasureBoard,
+    ws: &[Window],
+    h: &Window,
+    per: &mut Vec<(Condition, Vec<String>, Vec<String>)>,
+) {
+    for w in ws.iter().filter(|w| w.condition != Condition::Healthy) {
+        let entry = match per.iter().position(|x| x.0 == w.condition) {
+            Some(i) => i,
+            None => {
+                per.push((w.condition, Vec::new(), Vec::new()));
+                per.len() - 1
+            }
+        };
+        let text = format!(
+            "{}: {} against healthy {}",
+            measurement_words(m),
+            window_words(m, w),
+            window_words(m, h)
+        );
+        let others: Vec<&str> = ws
+            .iter()
+            .filter(|o| {
+                o.condition != Condition::Healthy
+                    && o.condition != w.condition
+                    && overlap(o.ticks, w.ticks)
+            })
+            .map(|o| condition_words(o.condition))
+            .collect();
+        if let Some(slot) = per.get_mut(entry) {
+            if overlap(w.ticks, h.ticks) {
+                slot.2.push(text);
+            } else if others.is_empty() {
+                slot.1.push(text);
+            } else {
+                slot.1
+                    .push(format!("{text}; shares ticks with {}", others.join(", ")));
+            }
+        }
+    }
+}
+
+/// What the windows assume, for the notes: the shorted-turn model and the comparator
+/// tolerance.
+fn assumptions(g: &crate::host::board::DiagnosisBoard) -> (String, String) {
+    let ((l_lo, l_hi), fr) = g.shorted;
+    let model = if l_hi > l_lo {
+        format!(
+            "; shorted turns modelled as L × {l_lo:.3} … {l_hi:.3} (from L·(1 − f)² to L·(1 − f), the two common models) and R × {fr:.3}"
+        )
+    } else {
+        format!("; shorted turns modelled as L × {l_lo:.3} and R × {fr:.3} (as given)")
+    };
+    let tol = if g.comparator_tolerance > 0.0 {
+        format!(
+            "; comparator thresholds ±{:.1} %",
+            g.comparator_tolerance * 100.0
+        )
+    } else {
+        String::new()
+    };
+    (model, tol)
 }
 
 /// The constant the firmware's tables need beside them.

@@ -181,40 +181,12 @@ fn emit(d: &crate::host::board::DriverBoard, p: &Proposal, out: &mut Outcome) {
     });
 }
 
-/// Which measurement would show a fault the file's measurements cannot.
-fn remedy(c: Condition) -> &'static str {
-    match c {
-        Condition::ClampOpen => "the proposed comparator, a faster timer, the compensated windows (kickguard::diagnosis::compensate) or the unit's learned window (kickguard::diagnosis::learn)",
-        Condition::ZenerShorted => "a comparator between the diode-only switch voltage and the lowest healthy one: a healthy switch-off trips it, a shorted zener never does",
-        Condition::CoilOpen => "no on-current: read the coil current before switching off",
-        Condition::ShortedTurns => "a decay too fast for the resistance the measured supply and on-current show: the compensated windows (kickguard::diagnosis::compensate)",
-        Condition::CoilTooHot => "the on-current with the supply measured: V/I above the hottest healthy winding (kickguard::diagnosis::compensate::ResistanceLimit)",
-        Condition::Healthy => "",
-    }
-}
-
-/// The proposal check, and the faults that stay invisible with a remedy each; returns the
-/// proposal, if one fits.
-///
-/// # Errors
-/// As [`propose`].
-pub fn checks(
-    board: &Board,
-    run: &DriverRun,
-    out: &mut Outcome,
-) -> Result<Option<Proposal>, HostError> {
+/// The proposal as a check (and its constants), or why none fits.
+fn proposal_check(board: &Board, run: &DriverRun, proposal: Option<&Proposal>, out: &mut Outcome) {
     let d = &run.d;
-    if d.diagnosis.is_none() {
-        return Ok(None);
-    }
     let corner = || Corner::Stated("every corner".into());
     let title = "diagnosis: proposed drain comparator";
-    let proposal = if run.figures.iter().any(|f| f.open.is_some()) {
-        propose(board, run)?
-    } else {
-        None
-    };
-    match (&proposal, bounds(run)) {
+    match (proposal, bounds(run)) {
         (Some(p), _) => {
             let status = if p.detectable {
                 Status::Info
@@ -251,6 +223,41 @@ pub fn checks(
         }
         (None, None) => {}
     }
+}
+
+/// Which measurement would show a fault the file's measurements cannot.
+fn remedy(c: Condition) -> &'static str {
+    match c {
+        Condition::ClampOpen => "the proposed comparator, a faster timer, the compensated windows (kickguard::diagnosis::compensate) or the unit's learned window (kickguard::diagnosis::learn)",
+        Condition::ZenerShorted => "a comparator between the diode-only switch voltage and the lowest healthy one: a healthy switch-off trips it, a shorted zener never does",
+        Condition::CoilOpen => "no on-current: read the coil current before switching off",
+        Condition::ShortedTurns => "a decay too fast for the resistance the measured supply and on-current show: the compensated windows (kickguard::diagnosis::compensate)",
+        Condition::CoilTooHot => "the on-current with the supply measured: V/I above the hottest healthy winding (kickguard::diagnosis::compensate::ResistanceLimit)",
+        Condition::Healthy => "",
+    }
+}
+
+/// The proposal check, and the faults that stay invisible with a remedy each; returns the
+/// proposal, if one fits.
+///
+/// # Errors
+/// As [`propose`].
+pub fn checks(
+    board: &Board,
+    run: &DriverRun,
+    out: &mut Outcome,
+) -> Result<Option<Proposal>, HostError> {
+    let d = &run.d;
+    if d.diagnosis.is_none() {
+        return Ok(None);
+    }
+    let proposal = if run.figures.iter().any(|f| f.open.is_some()) {
+        propose(board, run)?
+    } else {
+        None
+    };
+    proposal_check(board, run, proposal.as_ref(), out);
+    let corner = || Corner::Stated("every corner".into());
     let invisible: Vec<String> = out
         .checks
         .iter()

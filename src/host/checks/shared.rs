@@ -80,6 +80,13 @@ fn group(
         peak(board, &subject, r, i_sum, out)?;
         energy += r.d.count as f32 * raised_energy(board, r, i_sum)?;
     }
+    energy_and_power(&subject, members, energy, out);
+    Ok(())
+}
+
+/// The event's energy against the smallest energy rating, and its power at the group's
+/// highest rate against the smallest power rating.
+fn energy_and_power(subject: &str, members: &[&DriverRun], energy: f32, out: &mut Outcome) {
     let parts: Vec<&BreakdownPart> = members
         .iter()
         .filter_map(|r| r.d.clamp.breakdown())
@@ -100,7 +107,7 @@ fn group(
         source: "its pulse energy rating (the smallest stated)".into(),
     });
     out.checks.push(
-        Check::valued(&subject, "shared_energy", "energy into the shared part per event", energy, Unit::Joule, lim, Corner::Stated("every channel at its worst corner, the part's voltage raised by the others' current".into()))
+        Check::valued(subject, "shared_energy", "energy into the shared part per event", energy, Unit::Joule, lim, Corner::Stated("every channel at its worst corner, the part's voltage raised by the others' current".into()))
             .noted("Σ channels × each one's energy with the shared part at the summed current: an upper bound"),
     );
     let rate = members
@@ -118,7 +125,7 @@ fn group(
             });
             out.checks.push(
                 Check::valued(
-                    &subject,
+                    subject,
                     "shared_power",
                     title,
                     energy * f,
@@ -131,7 +138,7 @@ fn group(
         }
         None => out.checks.push(
             Check::worded(
-                &subject,
+                subject,
                 "shared_power",
                 title,
                 Status::Warn,
@@ -141,7 +148,6 @@ fn group(
             .noted("not judged: give the members' switching_rate"),
         ),
     }
-    Ok(())
 }
 
 /// A member's peak switch voltage with the shared part at the summed current.

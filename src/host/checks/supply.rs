@@ -213,22 +213,22 @@ fn at_supply(d: &DriverBoard, v: f32) -> Result<DriverBoard, crate::Error> {
     Ok(d)
 }
 
-/// A switch-off during the event: peak, clamp below the avalanche, clamp energy.
-fn switch_off_during(
+/// The driver's vertices with its supply held at the event's voltage, or None when a clamp
+/// across the switch conducts from the supply there (reported as a failing check).
+fn event_run(
     board: &Board,
     run: &DriverRun,
     p: &SupplyProfile,
     e: &Event,
     out: &mut Outcome,
-) -> Result<(), HostError> {
-    let d = &run.d;
+) -> Result<Option<DriverRun>, HostError> {
     let fault = |x: crate::Error| {
         board.fault(
             &format!("{}.profile", p.field),
             format!("during {}: the model refuses it: {x}", e.name),
         )
     };
-    let d_ev = at_supply(d, e.voltage).map_err(fault)?;
+    let d_ev = at_supply(&run.d, e.voltage).map_err(fault)?;
     let space = Space::for_driver(board, &d_ev, run.rises);
     let cx = Context {
         board,
@@ -249,21 +249,43 @@ fn switch_off_during(
             Ok(f) => figures.push(f),
             Err(x) if x.reason == Reason::CannotClamp => {
                 out.checks.push(
-                    Check::worded(&d.name, "event_clamp_conducts", &format!("clamp during {}", e.name), Status::Fail, "conducts from the supply", Corner::Stated(words(e)))
+                    Check::worded(&run.d.name, "event_clamp_conducts", &format!("clamp during {}", e.name), Status::Fail, "conducts from the supply", Corner::Stated(words(e)))
                         .noted("the clamp across the switch is at or below the event's supply voltage: it conducts from the supply for the whole event (and the coil never switches off); choose a clamp above the event's voltage"),
                 );
-                return Ok(());
+                return Ok(None);
             }
             Err(x) => return Err(fault(x)),
         }
     }
-    let ev = DriverRun {
+    Ok(Some(DriverRun {
         d: d_ev.clone(),
         space,
         points,
         figures,
         ..run.clone()
+    }))
+}
+
+/// A switch-off during the event: peak, clamp below the avalanche, the switch's survival where
+/// it clamps itself, the clamp part's energy.
+fn switch_off_during(
+    board: &Board,
+    run: &DriverRun,
+    p: &SupplyProfile,
+    e: &Event,
+    out: &mut Outcome,
+) -> Result<(), HostError> {
+    let Some(ev) = event_run(board, run, p, e, out)? else {
+        return Ok(());
     };
+    event_peaks(&ev, e, out);
+    event_energies(&ev, e, out);
+    Ok(())
+}
+
+/// The peak across the switch during the event, and against its avalanche onset.
+fn event_peaks(ev: &DriverRun, e: &Event, out: &mut Outcome) {
+    let d = &ev.d;
     let lim = Limit {
         value: d.switch.rating.value() * d.switch.derating.value(),
         bound: Bound::AtMost,
@@ -277,7 +299,7 @@ fn switch_off_during(
     // figure, judged by the energy checks like the steady case.
     let by_design = matches!(d.clamp, ClampBoard::Avalanche);
     if let Some(c) = figure_check(
-        &ev,
+        ev,
         super::Metric::PeakSwitch,
         "event_switch_voltage",
         &format!("peak across the switch at a switch-off during {}", e.name),
@@ -287,7 +309,7 @@ fn switch_off_during(
         out.checks.push(c.noted(format!("{}; the coil's current taken at the event's voltage (it settles within a few L/R; a shorter event gives less)", words(e))));
     }
     if let Some(c) = figure_check(
-        &ev,
+        ev,
         super::Metric::AvalancheShare,
         "event_clamp_below_avalanche",
         &format!(
@@ -303,12 +325,17 @@ fn switch_off_during(
     ) {
         out.checks.push(c.noted(words(e)));
     }
+}
+
+/// The switch's survival where it clamps itself, and the clamp part's energy, during the event.
+fn event_energies(ev: &DriverRun, e: &Event, out: &mut Outcome) {
+    let d = &ev.d;
     // A switch that clamps every switch-off itself (its avalanche or its own clamp): it must
     // survive one switch-off during the event, with the supply adding V_ev·Q.
     if let Some(e_s) = super::Metric::SwitchSurvivable.worst(&ev.d, &ev.points, &ev.figures) {
         let ok = e_s.value >= 1.0;
         out.checks.push(
-            Check::worded(&d.name, "event_switch_survival", &format!("switch survives a switch-off during {}", e.name), if ok { Status::Pass } else { Status::Fail }, &super::open_clamp::count_words(e_s.value), super::corner_for(&ev, super::Metric::SwitchSurvivable, &e_s))
+            Check::worded(&d.name, "event_switch_survival", &format!("switch survives a switch-off during {}", e.name), if ok { Status::Pass } else { Status::Fail }, &super::open_clamp::count_words(e_s.value), super::corner_for(ev, super::Metric::SwitchSurvivable, &e_s))
                 .of(super::Metric::SwitchSurvivable)
                 .counted(e_s.value)
                 .noted(format!("{}; its avalanche energy rating derated to its start temperature, the supply adding V·Q during the decay", words(e))),
@@ -317,7 +344,7 @@ fn switch_off_during(
     let rating = d.clamp.breakdown().and_then(|b| b.energy_rating);
     if let (Some(r), true) = (rating, ev.figures.iter().any(|f| f.energy.breakdown > 0.0)) {
         if let Some(c) = figure_check(
-            &ev,
+            ev,
             super::Metric::EnergyBreakdown,
             "event_breakdown_energy",
             &format!(
@@ -334,7 +361,6 @@ fn switch_off_during(
             out.checks.push(c.noted(words(e)));
         }
     }
-    Ok(())
 }
 
 /// The winding through a long event.

@@ -186,10 +186,7 @@ fn healthy(
     let i0 = c.op.start_current.value();
     let stored = c.coil.stored_energy(c.op.start_current)?.value();
     let i_off = i0 * OFF_FRACTION;
-    let i_rel = match cx.release_voltage {
-        Some(v) => Some(magnetic_current(cx.d, v, p)?.value()),
-        None => None,
-    };
+    let i_rel = release_current_at(cx, p)?;
     let mech = cx.d.mechanical.value();
     match c.switch_off()? {
         Off::Engine(off) => {
@@ -234,31 +231,49 @@ fn healthy(
                 },
             })
         }
-        Off::Snubber(s) => {
-            let resp = s.response()?;
-            let release = match i_rel {
-                Some(r) if r < i0 => Some(s.settle_time(Amps::new(r)?)?.value() + mech),
-                Some(_) => Some(mech),
-                None => None,
-            };
-            let v = resp.peak_switch_voltage.value();
-            let peak_output = match c.side {
-                crate::clamp::Side::Low => v,
-                crate::clamp::Side::High => c.op.supply.value() - v,
-            };
-            Ok(Healthy {
-                peak_switch: v,
-                peak_output,
-                off_time: s.settle_time(Amps::new(i_off)?)?.value(),
-                release,
-                energy: Energies {
-                    stored,
-                    resistor: resp.energy_in_resistor.value(),
-                    ..Energies::default()
-                },
-            })
-        }
+        Off::Snubber(s) => snubber_healthy(c, &s, i0, i_rel, mech, stored, i_off),
     }
+}
+
+/// This unit's release current at `p`, A (None without a must-release voltage).
+fn release_current_at(cx: &Context<'_>, p: &Point) -> Result<Option<f32>, Error> {
+    cx.release_voltage
+        .map(|v| magnetic_current(cx.d, v, p).map(|a| a.value()))
+        .transpose()
+}
+
+/// The healthy switch-off through an RC snubber (second order, closed form).
+fn snubber_healthy(
+    c: &Circuit,
+    s: &crate::clamp::snubber::SnubberSwitchOff,
+    i0: f32,
+    i_rel: Option<f32>,
+    mech: f32,
+    stored: f32,
+    i_off: f32,
+) -> Result<Healthy, Error> {
+    let resp = s.response()?;
+    let release = match i_rel {
+        Some(r) if r < i0 => Some(s.settle_time(Amps::new(r)?)?.value() + mech),
+        Some(_) => Some(mech),
+        None => None,
+    };
+    let v = resp.peak_switch_voltage.value();
+    let peak_output = match c.side {
+        crate::clamp::Side::Low => v,
+        crate::clamp::Side::High => c.op.supply.value() - v,
+    };
+    Ok(Healthy {
+        peak_switch: v,
+        peak_output,
+        off_time: s.settle_time(Amps::new(i_off)?)?.value(),
+        release,
+        energy: Energies {
+            stored,
+            resistor: resp.energy_in_resistor.value(),
+            ..Energies::default()
+        },
+    })
 }
 
 /// The open-clamp fault's figures at `p`.
