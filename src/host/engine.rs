@@ -71,7 +71,8 @@ fn cause(e: &crate::Error) -> (&'static str, &'static str) {
     }
 }
 
-/// A model refusal at a corner, located at the design field that caused it (see [`cause`]).
+/// A model refusal at a corner, located at the design field that caused it (mapped from the
+/// library's name for the refused input).
 pub fn refused(
     board: &Board,
     d: &DriverBoard,
