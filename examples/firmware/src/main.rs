@@ -8,6 +8,7 @@ mod config {
 }
 
 use kickguard::diagnosis::history::VerdictHistory;
+use kickguard::diagnosis::learn::{LearnedWindow, Learner, Reading};
 use kickguard::diagnosis::{Condition, Verdict, Windows};
 
 fn main() {
@@ -45,6 +46,39 @@ fn main() {
                 if config::valve::OPEN_CLAMP_SURVIVABLE == u32::MAX { "it repetitively".to_string() } else { format!("{}", config::valve::OPEN_CLAMP_SURVIVABLE) }
             );
             break;
+        }
+    }
+
+    learn_persist_restore();
+}
+
+/// This unit's own healthy window, learned from its first switch-offs on the 30 V comparator,
+/// persisted (in flash on the target), restored after a reset, then a departure: a reading the
+/// design still calls healthy but this unit has never shown (an early warning).
+fn learn_persist_restore() {
+    let design = Windows::from_rows(&config::valve::DIAG_0_WINDOWS);
+    let margin = config::valve::LEARN_MARGIN_TICKS;
+    let mut learner: Learner<{ config::valve::LEARN_READINGS as usize }> =
+        Learner::new(design, margin).expect("the generated windows have a healthy row");
+    let mut stored = [0u8; config::valve::LEARNED_WINDOW_BYTES as usize];
+    // A unit that reads 50 … 53 ticks, switch-off after switch-off.
+    for k in 0..config::valve::LEARN_READINGS {
+        if let Reading::Learned(w) = learner.observe(50 + k % 4) {
+            println!("learned this valve's window: {} … {} ticks", w.lo, w.hi);
+            stored = w.to_bytes();
+        }
+    }
+    // After a reset: the stored window, checked against the design before it is trusted.
+    let restored = LearnedWindow::from_bytes(&stored, &design).expect("a stored window");
+    let mut again: Learner<{ config::valve::LEARN_READINGS as usize }> =
+        Learner::resume(design, margin, restored).expect("restored");
+    for ticks in [51u32, 52, 70] {
+        let r = again.observe(ticks);
+        println!("reading {ticks} ticks → {r:?}");
+        if r == Reading::Departure {
+            println!(
+                "departure: healthy by the design, new for this valve: log it and watch the clamp"
+            );
         }
     }
 }

@@ -218,6 +218,7 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
         });
         sort_readings(m, &ws, &h, &mut per);
     }
+    learner_constants(run, out);
     let (model, tol) = assumptions(g);
     for (cond, yes, no) in per {
         let title = format!("diagnosis: {}", condition_words(cond));
@@ -312,6 +313,32 @@ fn assumptions(g: &crate::host::board::DiagnosisBoard) -> (String, String) {
         String::new()
     };
     (model, tol)
+}
+
+/// How many healthy readings the firmware's learner collects before it has learned a unit's
+/// own window (`Learner::<LEARN_READINGS>`; between the library's 5 and 256).
+pub const LEARN_READINGS: u32 = 16;
+
+/// The learner's constants of a driver with a diagnosis: its size, its margin (the timing
+/// jitter) and the length of the persisted window.
+pub fn learner_constants(run: &DriverRun, out: &mut Outcome) {
+    let Some(g) = run.d.diagnosis.as_ref() else {
+        return;
+    };
+    let m = &run.d.module;
+    out.constants.push(Constant::new(m, "LEARN_READINGS", LEARN_READINGS, "healthy readings the learner collects before it has learned this unit's window (Learner::<LEARN_READINGS>)"));
+    out.constants.push(Constant::new(
+        m,
+        "LEARN_MARGIN_TICKS",
+        g.jitter_ticks,
+        "ticks added to each side of a learned window (the timing jitter)",
+    ));
+    out.constants.push(Constant::new(
+        m,
+        "LEARNED_WINDOW_BYTES",
+        9,
+        "bytes of a persisted learned window (LearnedWindow::to_bytes)",
+    ));
 }
 
 /// The constant the firmware's tables need beside them.
