@@ -35,6 +35,8 @@ pub mod classify;
 pub mod compensate;
 pub mod fit;
 pub mod hal;
+#[cfg(feature = "async")]
+pub mod hal_async;
 pub mod history;
 pub mod learn;
 pub mod propose;
