@@ -94,15 +94,10 @@ fn the_option_table_matches_the_closed_forms() {
     assert!(close(p.clamp_energy as f64, 0.8 * charge(0.8, R), 2e-4));
     // A resistor equal to the coil's (56 Ω) + the diode: peak V_s + I₀·56 + 0.8; the loop's
     // resistance doubles; the clamp takes what the coil's own resistance does not:
-    // ½·L·I₀² − R·∫i²dt, ∫i²dt = (I₀+a)²·τ/2·(1 − e^(−2T/τ)) − 2a(I₀+a)·τ·(1 − e^(−T/τ)) + a²·T
-    // with T = τ·ln(1 + I₀/a) the time to zero.
+    // ½·L·I₀² − R·∫i²dt (the closed form in tests/common).
     let rd = find("resistor");
     assert!(close(rd.peak_switch as f64, VS + i0 * 56.0 + 0.8, 1e-5));
-    let (tau, a) = (L / (2.0 * R), 0.8 / (2.0 * R));
-    let t_end = tau * (1.0 + i0 / a).ln();
-    let i2 = (i0 + a).powi(2) * tau / 2.0 * (1.0 - (-2.0 * t_end / tau).exp())
-        - 2.0 * a * (i0 + a) * tau * (1.0 - (-t_end / tau).exp())
-        + a * a * t_end;
+    let (_, i2, _) = common::rl_decay_to_zero(L, 2.0 * R, 0.8, i0);
     let want = 0.5 * L * i0 * i0 - R * i2;
     assert!(
         close(rd.clamp_energy as f64, want, 2e-4),

@@ -287,14 +287,8 @@ fn a_shared_zener_carries_every_channel_at_once() {
     // others' current, 2·2·I₀ = 1.714 V: the zener line V = 17.98 + 1.714 + 2·i, so with the
     // diode the loop is affine, V_c = 20.494 V and R_total = 58 Ω (closed form; the zener
     // takes V_z(i)·i, the diode 0.8·i): E_z = ∫(19.694 + 2·i)·i dt over the decay to zero.
-    let (l, rt) = (0.35f64, 58.0f64);
     let vc = 17.98 + 4.0 * i0 + 0.8;
-    let (tau, a) = (l / rt, vc / rt);
-    let q = tau * (i0 - a * (1.0 + i0 / a).ln());
-    let t_end = tau * (1.0 + i0 / a).ln();
-    let i2 = (i0 + a).powi(2) * tau / 2.0 * (1.0 - (-2.0 * t_end / tau).exp())
-        - 2.0 * a * (i0 + a) * tau * (1.0 - (-t_end / tau).exp())
-        + a * a * t_end;
+    let (q, i2, _) = common::rl_decay_to_zero(0.35, 58.0, vc, i0);
     let e_z = (vc - 0.8) * q + 2.0 * i2;
     let e = checks(&r, "shared_energy")[0].value.unwrap() as f64;
     assert!((e - 3.0 * e_z).abs() < 3e-4 * e, "{e} vs {}", 3.0 * e_z);

@@ -498,25 +498,7 @@ fn case_15_bin_edges_that_round_together_are_refused() {
     use kickguard::diagnosis::compensate::MeasuredAccuracy;
     use kickguard::diagnosis::windows::Timing;
     use kickguard::{Duty, Hertz, Reason};
-    let coil = Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap();
-    let design = Design {
-        coil,
-        inductance_tolerance: 0.1,
-        resistance_tolerance: 0.07,
-        v_supply_min: Volts::new(21.6).unwrap(),
-        v_supply_max: Volts::new(26.4).unwrap(),
-        t_winding_min: t(-10.0),
-        t_winding_max: t(80.0),
-        t_winding_fault_max: t(130.0),
-        t_clamp_min: t(-10.0),
-        t_clamp_max: t(80.0),
-        clamp: Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap())),
-        clamp_tolerance: 0.0,
-        switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
-        avalanche_tolerance: 0.0,
-        shorted: ShortedTurns::Fraction(0.2),
-        side: Side::Low,
-    };
+    let design = fixed_drop_valve();
     let m = Measurement::SwitchAbove {
         threshold: Volts::new(30.0).unwrap(),
     };
@@ -551,27 +533,10 @@ fn case_15_bin_edges_that_round_together_are_refused() {
 #[test]
 fn case_16_shorted_turn_factors_the_coil_model_cannot_hold_are_refused_by_name() {
     use kickguard::Reason;
-    let coil = Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap();
-    let mut design = Design {
-        coil,
-        inductance_tolerance: 0.1,
-        resistance_tolerance: 0.07,
-        v_supply_min: Volts::new(21.6).unwrap(),
-        v_supply_max: Volts::new(26.4).unwrap(),
-        t_winding_min: t(-10.0),
-        t_winding_max: t(80.0),
-        t_winding_fault_max: t(130.0),
-        t_clamp_min: t(-10.0),
-        t_clamp_max: t(80.0),
-        clamp: Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap())),
-        clamp_tolerance: 0.0,
-        switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
-        avalanche_tolerance: 0.0,
-        shorted: ShortedTurns::Scales {
-            inductance: 1e-40,
-            resistance: 1e-40,
-        },
-        side: Side::Low,
+    let mut design = fixed_drop_valve();
+    design.shorted = ShortedTurns::Scales {
+        inductance: 1e-40,
+        resistance: 1e-40,
     };
     let m = Measurement::SwitchAbove {
         threshold: Volts::new(30.0).unwrap(),
@@ -592,4 +557,27 @@ fn case_16_shorted_turn_factors_the_coil_model_cannot_hold_are_refused_by_name()
         resistance: 0.5,
     };
     assert!(design.separations(&m).is_ok());
+}
+
+/// A 0.35 H, 56 Ω valve on 21.6 … 26.4 V with a fixed 0.8 V freewheel diode, for the diagnosis
+/// cases (invented test input).
+fn fixed_drop_valve() -> Design {
+    Design {
+        coil: Coil::fixed(Henries::new(0.35).unwrap(), Ohms::new(56.0).unwrap()).unwrap(),
+        inductance_tolerance: 0.1,
+        resistance_tolerance: 0.07,
+        v_supply_min: Volts::new(21.6).unwrap(),
+        v_supply_max: Volts::new(26.4).unwrap(),
+        t_winding_min: t(-10.0),
+        t_winding_max: t(80.0),
+        t_winding_fault_max: t(130.0),
+        t_clamp_min: t(-10.0),
+        t_clamp_max: t(80.0),
+        clamp: Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap())),
+        clamp_tolerance: 0.0,
+        switch_avalanche: Breakdown::ideal(Volts::new(66.0).unwrap()).unwrap(),
+        avalanche_tolerance: 0.0,
+        shorted: ShortedTurns::Fraction(0.2),
+        side: Side::Low,
+    }
 }

@@ -8,6 +8,22 @@
 
 pub mod ode;
 
+/// The decay of a coil from `i0` to zero through a constant clamp voltage `vc` in a loop of
+/// resistance `r` (the textbook first-order RL solution, any circuit-analysis text, e.g. Hayt &
+/// Kemmerly, source-free RL circuits — from memory): i(t) = (I₀ + a)·e^(−t/τ) − a with
+/// τ = L/R, a = V_c/R. Returns (charge Q = τ·[I₀ − a·ln(1 + I₀/a)], ∫i²dt, time to zero
+/// T = τ·ln(1 + I₀/a)), with ∫i²dt = (I₀ + a)²·τ/2·(1 − e^(−2T/τ)) − 2a(I₀ + a)·τ·(1 − e^(−T/τ))
+/// + a²·T.
+pub fn rl_decay_to_zero(l: f64, r: f64, vc: f64, i0: f64) -> (f64, f64, f64) {
+    let (tau, a) = (l / r, vc / r);
+    let t_end = tau * (1.0 + i0 / a).ln();
+    let q = tau * (i0 - a * (1.0 + i0 / a).ln());
+    let i2 = (i0 + a).powi(2) * tau / 2.0 * (1.0 - (-2.0 * t_end / tau).exp())
+        - 2.0 * a * (i0 + a) * tau * (1.0 - (-t_end / tau).exp())
+        + a * a * t_end;
+    (q, i2, t_end)
+}
+
 /// A one-driver design file for the configuration step (feature `host`); `extra` goes into
 /// the driver's table, `switch` and `clamp` into theirs.
 pub fn design(
