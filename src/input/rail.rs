@@ -187,8 +187,15 @@ pub fn rail_off_together(
     };
     let balance = |v: f32| fed(v).map_or(f32::NAN, |i| i - v / rl);
     let v = if top > 0.0 && balance(0.0) > 0.0 {
-        crate::solve::illinois(balance, 0.0, top, 1e-6, 100)
-            .ok_or(Error::new("rail voltage", Reason::Unreachable))?
+        match crate::solve::illinois(balance, 0.0, top, 1e-6, 100) {
+            Some(v) => v,
+            None => {
+                // The model's own refusal where there is one, else the search's.
+                fed(0.0)?;
+                fed(top)?;
+                return Err(Error::new("rail voltage", Reason::Unreachable));
+            }
+        }
     } else {
         0.0
     };
