@@ -273,12 +273,15 @@ fn command_line_exit_statuses() {
 
 #[test]
 fn command_line_options_are_checked() {
-    // -h and --help print the same, and point to the annotated example.
+    // -h and --help print the same, and point to the field reference and the example; they
+    // say what the exit status means as the summary does (0: no check failed).
     let (c1, short, _) = cli(&["check", "-h"]);
     let (c2, long, _) = cli(&["check", "--help"]);
     assert_eq!((c1, c2), (0, 0));
     assert_eq!(short, long);
     assert!(short.contains("examples/greenhouse.toml"), "{short}");
+    assert!(short.contains("docs/design-file.md"), "{short}");
+    assert!(short.contains("0 no check failed"), "{short}");
     assert_eq!(cli(&["-h"]).1, cli(&["--help"]).1);
     // A zero sample count is refused with a clear message; so is a seed without samples.
     let out = scratch("cli_opts");

@@ -14,7 +14,7 @@ use std::path::PathBuf;
 use std::process::ExitCode;
 
 /// Text after the options, the same for `-h` and `--help`.
-const AFTER: &str = "The annotated example design is examples/greenhouse.toml in the kickguard repository: every field, its unit and its meaning.\n\nResults are engineering estimates from simplified models: verify on the real hardware; local codes and licensed practice prevail.\n\nExit status: 0 no check failed (WARN lines are advice or checks that could not be judged, never a limit exceeded), 1 a check failed (the constants written stop a firmware build with the reason), 2 bad input (nothing written; the files an earlier run wrote into --out are removed).";
+const AFTER: &str = "Every field of the design file, its unit, default and meaning: docs/design-file.md in the kickguard repository; examples/greenhouse.toml is an annotated example.\n\nResults are engineering estimates from simplified models: verify on the real hardware; local codes and licensed practice prevail.\n\nExit status: 0 no check failed (WARN lines are advice or checks that could not be judged, never a limit exceeded), 1 a check failed (the constants written stop a firmware build with the reason), 2 bad input (nothing written; the files an earlier run wrote into --out are removed).";
 
 /// Suppression, timing, input-protection and diagnosis checks for coil drivers, from a design file.
 #[derive(Parser)]
