@@ -348,6 +348,8 @@ fn every_public_function_returns_promptly_on_hostile_input() {
             let acc = MeasuredAccuracy {
                 supply: 0.02,
                 current: 0.02,
+                supply_step: 0.0,
+                current_step: 0.0,
             };
             let _ = design.compensated_tick_windows(
                 &m,

@@ -546,6 +546,8 @@ fn compensated(d: &Design, s: &Spec, m: &Measurement, t: &Timing) -> Compensated
     let acc = MeasuredAccuracy {
         supply: 0.01,
         current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
     };
     d.compensated_tick_windows(m, t, &acc, supply, current)
         .unwrap()

@@ -183,6 +183,8 @@ fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
     let acc = MeasuredAccuracy {
         supply: 0.01,
         current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
     };
     let supply = [22.0f32, 24.0, 26.0, 28.0].map(|v| Volts::new(v).unwrap());
     let current = [0.36f32, 0.40, 0.44, 0.48, 0.52, 0.56, 0.60].map(|a| Amps::new(a).unwrap());
@@ -217,11 +219,18 @@ fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
         comp.classify(24_000, 430_000, tick(open)),
         Verdict::Fault(Condition::ClampOpen)
     );
-    // The resistance limit: no healthy winding reads above R_max·(1 + ε_V)/(1 − ε_I).
+    // The resistance limit: no healthy winding reads above
+    // R_max·(1 + ε_V + h_V/V_min)/(1 − ε_I − h_I/I_min) (arithmetic on V = I·R with each
+    // reading off by its relative error and half its step): R_max = 56·1.2 Ω, V_min = 20 V,
+    // I_min = V_min/R_max, half steps of the integer inputs 0.5 mV and 0.5 µA.
     let lim = d.resistance_limit(&acc).unwrap();
-    assert_eq!(
+    let r_max = 56.0f64 * 1.2;
+    let want = r_max * (1.01 + 0.0005 / 20.0) / (0.99 - 0.5e-6 / (20.0 / r_max));
+    assert!(
+        (lim.max_healthy_mohm as f64 - (want * 1000.0).ceil()).abs() <= 1.0,
+        "{} vs {}",
         lim.max_healthy_mohm,
-        (56.0f64 * 1.2 * 1.01 / 0.99 * 1000.0).ceil() as u32
+        want * 1000.0
     );
     assert!(lim.exceeded(24_000, 300_000) && !lim.exceeded(24_000, 400_000));
 }

@@ -510,6 +510,8 @@ fn case_15_bin_edges_that_round_together_are_refused() {
     let acc = MeasuredAccuracy {
         supply: 0.01,
         current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
     };
     // 24.0001 V and 24.0002 V both round to 24 000 mV: the second bin could never be chosen.
     let supply = [24.0001f32, 24.0002, 26.4].map(|v| Volts::new(v).unwrap());
@@ -580,4 +582,46 @@ fn fixed_drop_valve() -> Design {
         shorted: ShortedTurns::Fraction(0.2),
         side: Side::Low,
     }
+}
+
+#[test]
+fn case_17_readings_at_their_accuracy_and_rounding_never_cross_the_resistance_limit() {
+    use kickguard::diagnosis::compensate::MeasuredAccuracy;
+    // The sweep's case: readings exactly ±1 % off and rounded to the nearest millivolt and
+    // microampere crossed the limit by 5e-6 at some healthy corners. Every healthy corner here
+    // (supply ends, winding −10 … 80 °C, R ± 7 %, copper 0.00393 /K: IEC 60028), read high in
+    // V and low in I by exactly 1 % and rounded, stays within it (arithmetic on V = I·R).
+    let mut d = fixed_drop_valve();
+    d.coil = Coil::copper(
+        Henries::new(0.35).unwrap(),
+        Ohms::new(56.0).unwrap(),
+        t(20.0),
+    )
+    .unwrap();
+    let acc = MeasuredAccuracy {
+        supply: 0.01,
+        current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
+    };
+    let lim = d.resistance_limit(&acc).unwrap();
+    let mut corners = 0;
+    for v in [21.6f64, 24.0, 26.4] {
+        for k in 0..=18 {
+            let tc = -10.0 + 5.0 * k as f64;
+            for s in [0.93f64, 1.0, 1.07] {
+                let r = 56.0 * s * (1.0 + 0.00393 * (tc - 20.0));
+                let i = v / r;
+                let v_mv = (v * 1.01 * 1e3).round() as u32;
+                let i_ua = (i * 0.99 * 1e6).round() as u32;
+                assert!(!lim.exceeded(v_mv, i_ua), "{v} V, {tc} °C, R×{s}");
+                corners += 1;
+            }
+        }
+    }
+    assert_eq!(corners, 171);
+    // A winding far hotter than any healthy one (R 10 % above the hottest, read exactly) is
+    // over it.
+    let r_hot = 56.0 * 1.07 * (1.0 + 0.00393 * 60.0) * 1.10;
+    assert!(lim.exceeded(21_600, (21.6 / r_hot * 1e6) as u32));
 }

@@ -31,15 +31,31 @@ use crate::coil::Coil;
 use crate::error::{self, Error, Reason};
 use crate::units::{Amps, Henries, Ohms, Seconds, Temperature, Volts};
 
-/// The relative accuracy of the firmware's own readings of the supply and the on-current
-/// (0.02 = ±2 %), each 0 … 0.2.
+/// The accuracy of the firmware's own readings of the supply and the on-current: a relative
+/// error (0.02 = ±2 %, each 0 … 0.2) and a resolution, the step of the reading as the firmware
+/// feeds it (an ADC's LSB over its range; never finer than the 1 mV and 1 µA of the integer
+/// inputs, which are taken when the step is smaller): a reading rounded to the nearest step is
+/// within half a step of its value, on top of the relative error.
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct MeasuredAccuracy {
-    /// Supply reading.
+    /// Supply reading, relative.
     pub supply: f32,
-    /// On-current reading.
+    /// On-current reading, relative.
     pub current: f32,
+    /// Step of the supply reading, V (0 … 1 V).
+    pub supply_step: f32,
+    /// Step of the on-current reading, A (0 … 1 A).
+    pub current_step: f32,
+}
+
+/// The readings' errors: relative (supply, current) and half a step each (V, A).
+#[derive(Debug, Clone, Copy)]
+struct Acc {
+    ev: f32,
+    ei: f32,
+    hv: f32,
+    hi: f32,
 }
 
 /// Windows per cell of (measured supply, measured on-current).
@@ -138,16 +154,31 @@ impl Design {
         })
     }
 
-    /// The resistance limit above which no healthy winding is, lowered by the on-current and
-    /// supply readings' accuracy (a true healthy R can read up to (1 + ε_V)/(1 − ε_I) high).
+    /// The resistance limit above which no healthy winding is, raised by what the on-current and
+    /// supply readings can add: a true healthy R can read up to
+    /// (1 + ε_V + h_V/V)/(1 − ε_I − h_I/I) high, h half a step of each reading, at the lowest
+    /// supply and the smallest healthy on-current (where the steps weigh most).
     ///
     /// # Errors
-    /// As [`Design::window`]; accuracy outside 0 … 0.2 → [`Reason::OutsideValidatedRange`] on
+    /// As [`Design::window`]; accuracy outside 0 … 0.2, a step outside 0 … 1 V / 1 A, or a
+    /// current step as large as the smallest on-current → [`Reason::OutsideValidatedRange`] on
     /// `"measurement accuracy"`.
     pub fn resistance_limit(&self, acc: &MeasuredAccuracy) -> Result<ResistanceLimit, Error> {
         self.check()?;
-        let (ev, ei) = accuracy(acc)?;
-        let r = self.ranges()?.healthy.1 * (1.0 + ev) / (1.0 - ei);
+        let a = accuracy(acc)?;
+        // R_read = V_read/I_read ≤ (V·(1 + ε_V) + h_V)/(I·(1 − ε_I) − h_I)
+        //        = R·(1 + ε_V + h_V/V)/(1 − ε_I − h_I/I), largest at the smallest V and I.
+        let r_max = self.ranges()?.healthy.1;
+        let v_min = self.v_supply_min.value();
+        let i_min = v_min / r_max;
+        let den = 1.0 - a.ei - a.hi / i_min;
+        if !(den > 0.0) {
+            return Err(Error::new(
+                "measurement accuracy",
+                Reason::OutsideValidatedRange,
+            ));
+        }
+        let r = r_max * (1.0 + a.ev + a.hv / v_min) / den;
         let mohm = libm::ceilf(r * 1000.0);
         if !(mohm < u32::MAX as f32) {
             return Err(Error::new("coil resistance", Reason::TooLarge));
@@ -179,7 +210,8 @@ impl Design {
     ) -> Result<CompensatedWindows<S, C>, Error> {
         self.check()?;
         timing.validate()?;
-        let (ev, ei) = accuracy(acc)?;
+        let a = accuracy(acc)?;
+        let (ev, ei) = (a.ev, a.ei);
         let sv = edges("supply edges", &supply_edges.map(|v| v.value()))?;
         let ci = edges("current edges", &current_edges.map(|a| a.value()))?;
         if S > 0 && !(supply_edges.last().is_some_and(|e| *e >= self.v_supply_max)) {
@@ -204,8 +236,8 @@ impl Design {
                 .unwrap_or(v_lo)
                 .min(self.v_supply_max.value());
             let v = (
-                (v_lo * (1.0 - ev)).max(self.v_supply_min.value()),
-                (v_hi * (1.0 + ev)).min(self.v_supply_max.value()),
+                ((v_lo - a.hv) * (1.0 - ev)).max(self.v_supply_min.value()),
+                ((v_hi + a.hv) * (1.0 + ev)).min(self.v_supply_max.value()),
             );
             for (j, cell) in (0..C).zip(row.iter_mut()) {
                 let i_lo = if j == 0 {
@@ -218,7 +250,10 @@ impl Design {
                 } else {
                     ci.get(j).copied().unwrap_or(i_lo)
                 };
-                let i = (i_lo * (1.0 - ei), i_hi * (1.0 + ei));
+                let i = (
+                    ((i_lo - a.hi) * (1.0 - ei)).max(0.0),
+                    (i_hi + a.hi) * (1.0 + ei),
+                );
                 *cell = self.cell_windows(m, timing, &ranges, v, i)?;
             }
         }
@@ -328,11 +363,15 @@ impl Design {
 }
 
 /// The two accuracies, checked.
-fn accuracy(acc: &MeasuredAccuracy) -> Result<(f32, f32), Error> {
-    Ok((
-        error::within("measurement accuracy", acc.supply, 0.0, 0.2)?,
-        error::within("measurement accuracy", acc.current, 0.0, 0.2)?,
-    ))
+fn accuracy(acc: &MeasuredAccuracy) -> Result<Acc, Error> {
+    let m = "measurement accuracy";
+    Ok(Acc {
+        ev: error::within(m, acc.supply, 0.0, 0.2)?,
+        ei: error::within(m, acc.current, 0.0, 0.2)?,
+        // Half a step, never finer than the integer inputs' 1 mV and 1 µA.
+        hv: 0.5 * error::within(m, acc.supply_step, 0.0, 1.0)?.max(1e-3),
+        hi: 0.5 * error::within(m, acc.current_step, 0.0, 1.0)?.max(1e-6),
+    })
 }
 
 /// Edges checked positive and strictly increasing.

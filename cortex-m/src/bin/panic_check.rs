@@ -601,6 +601,8 @@ fn diagnosis() -> Result<(), Error> {
     let acc = MeasuredAccuracy {
         supply: bb(0.01),
         current: bb(0.01),
+        supply_step: 0.0,
+        current_step: 0.0,
     };
     let comp = design.compensated_tick_windows(
         &m,
