@@ -328,3 +328,45 @@ fn the_switchs_own_avalanche_is_judged_by_its_energy_during_an_event() {
         .unwrap();
     assert_eq!(dump.status, Status::Fail);
 }
+
+#[test]
+fn a_long_low_event_is_checked_for_operate() {
+    // 9 … 16 V steady, copper winding (0.00393 /K at 20 °C, IEC 60028) up to 85 + 15 = 100 °C,
+    // must operate at 7 V. A 60 s event at 8 V: the per-unit operate drive is
+    // 8/(1 + 0.00393·80) = 6.087 V, below 7 V (arithmetic; the per-unit convention of
+    // tests/host_conventions.rs).
+    let coil = "inductance = \"0.2 H\"\ninductance_tolerance = \"0 %\"\nresistance = \"90 Ω\"\nresistance_tolerance = \"10 %\"\nresistance_at = \"20 °C\"\nmust_operate = \"7 V\"";
+    let ev = "[[supply.event]]\nname = \"brown-out\"\nvoltage = \"8 V\"\nduration = \"60 s\"";
+    let text = design(
+        ("13.5 V", "9 V", "16 V"),
+        ("-40 °C", "85 °C", "15 K"),
+        coil,
+        SWITCH,
+        "kind = \"diode\"\ndiode = \"0.8 V\"",
+        "",
+    )
+    .replace("[[driver]]", &format!("{ev}\n\n[[driver]]"));
+    let r = analyse(&text);
+    let c = checks(&r, "event_operate");
+    assert_eq!(c.len(), 1);
+    let want = 8.0 / (1.0 + 0.00393 * 80.0);
+    assert!(
+        (c[0].value.unwrap() - want).abs() < 1e-3,
+        "{:?} vs {want}",
+        c[0].value
+    );
+    assert_eq!(c[0].status, Status::Fail);
+    // A series diode makes a supply that sinks current unable to take returned energy: the rise
+    // is judged (not judged here for want of a capacitance).
+    let hb = text
+        .replace("kind = \"diode\"", "kind = \"h-bridge\"")
+        .replace(
+            "max = \"16 V\"\n",
+            "max = \"16 V\"\nsinks_current = true\nreverse_protection = \"series-diode\"\n",
+        );
+    let r = analyse(&hb);
+    assert_eq!(
+        checks(&r, "rail_rise")[0].shown.as_deref(),
+        Some("not judged")
+    );
+}

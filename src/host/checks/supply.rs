@@ -59,6 +59,7 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
             off_state(run, e, out);
             switch_off_during(board, run, p, e, out)?;
             heating(board, run, e, out);
+            operate_during(run, e, out);
         } else if e.voltage < 0.0 {
             reversed(board, run, p, e, out);
         }
@@ -94,7 +95,8 @@ fn returned(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), Hos
     );
     let title = "supply rail after every channel switches off at once";
     let p = d.profile.as_ref();
-    if p.is_some_and(|p| p.sinks) {
+    // A series diode in the supply blocks the returned current whatever the supply could sink.
+    if p.is_some_and(|p| p.sinks && p.protection != Protection::SeriesDiode) {
         out.checks.push(
             Check::worded(
                 &d.name,
@@ -400,6 +402,45 @@ fn heating(board: &Board, run: &DriverRun, e: &Event, out: &mut Outcome) {
 /// A breakdown part's lowest voltage over its tolerance (its temperature coefficient aside), V.
 fn lowest(b: &crate::host::board::BreakdownPart) -> Option<f32> {
     b.voltage.map(|v| v.value() * (1.0 - b.tol))
+}
+
+/// A long event below the steady range: does the coil still operate? The operate drive
+/// (on-current × the unit's R at its reference temperature, [`crate::host::checks::timing`])
+/// scales with the supply, so at the event it is the steady figure × V_ev/V at its worst
+/// vertex, against the must-operate voltage.
+fn operate_during(run: &DriverRun, e: &Event, out: &mut Outcome) {
+    let d = &run.d;
+    let Some(v_op) = d.operate else { return };
+    if e.duration < LONG_EVENT_S || !(e.voltage < d.supply.min.value()) {
+        return;
+    }
+    let drive = run
+        .points
+        .iter()
+        .zip(&run.figures)
+        .filter_map(|(p, f)| f.operate_drive.map(|x| x / p.at(Axis::Supply)))
+        .fold(f32::INFINITY, f32::min)
+        * e.voltage;
+    if !drive.is_finite() {
+        return;
+    }
+    let lim = Limit {
+        value: v_op.value(),
+        bound: Bound::AtLeast,
+        source: format!("must-operate voltage {v_op}, per unit at the reference temperature"),
+    };
+    out.checks.push(
+        Check::valued(
+            &d.name,
+            "event_operate",
+            &format!("coil drive to operate during {}", e.name),
+            drive,
+            Unit::Volt,
+            Some(lim),
+            Corner::Stated(words(e)),
+        )
+        .noted("the operate check at the event's voltage: the hottest winding, the unit's own resistance tied on both sides"),
+    );
 }
 
 /// The lowest coil resistance (coldest ambient, bottom of the tolerance), Ω.
