@@ -1,5 +1,6 @@
-//! The supply's transient events and reversed polarity, per driver (issue of the supply side;
-//! the profiles are in [`crate::host::board::profile`]).
+//! The supply side of each driver: its supply's transient events, reversed polarity, and the
+//! energy a fast decay returns to the supply (the profiles are in
+//! [`crate::host::board::profile`]; the rail's rise in [`crate::supply`]).
 //!
 //! For an event with a positive voltage V_ev (a load dump, a jump start, an overvoltage):
 //! - **the switch when off** holds V_ev (through the coil on a low side, directly on a high
@@ -14,7 +15,8 @@
 //! - **the coil energised through a long event** (10 s or more): the winding's rise above the
 //!   hottest ambient scales with its power, V², so it reaches the design's self-heating ×
 //!   (V_ev/V_max)² (steady state, which overstates a shorter event), against
-//!   `coil.max_temperature` when given.
+//!   `coil.max_temperature` when given; and, below the steady range, the operate check at the
+//!   event's voltage.
 //!
 //! For an event with a negative voltage (reversed polarity), with nothing in the supply to stop
 //! it: a clamp with a diode across the coil and nothing in series (a plain diode, an H-bridge,
