@@ -8,6 +8,8 @@
 //! machine's Rust and C compilers beside a definition of the symbol the name tries to inject,
 //! so an injection that got through would be a duplicate definition and fail the build.
 
+mod common;
+
 use kickguard::host::{analyse_text, configure, ident, output, write_outputs, Options};
 use std::path::{Path, PathBuf};
 use std::process::Command;
@@ -107,23 +109,11 @@ fn compile_c(dir: &Path, header: &str) -> std::process::Output {
         "#include \"kickguard_config.h\"\nint injected(void);\nint injected(void) { return 0; }\n",
     )
     .unwrap();
-    Command::new("cc")
-        .args([
-            "-std=c99",
-            "-Wall",
-            "-Wextra",
-            "-pedantic",
-            "-Werror",
-            "-Wno-trigraphs",
-            "-trigraphs",
-            "-c",
-            "use.c",
-            "-o",
-            "use.o",
-        ])
-        .current_dir(dir)
-        .output()
-        .expect("the machine's C compiler (cc)")
+    common::cc_strict(
+        dir,
+        "-std=c99",
+        &["-Wno-trigraphs".as_ref(), "-trigraphs".as_ref()],
+    )
 }
 
 /// Every line of the generated Rust module is a comment, an attribute, a module or a constant.

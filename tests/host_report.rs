@@ -16,7 +16,6 @@ use common::design;
 use kickguard::host::checks::Status;
 use kickguard::host::report::Report;
 use kickguard::host::{analyse_text, output, Options};
-use std::process::Command;
 
 const L: f64 = 0.35;
 const R: f64 = 56.0;
@@ -277,23 +276,7 @@ fn the_c_hint_compiles_against_the_c_abi() {
     )
     .unwrap();
     let inc = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("capi/include");
-    let out = Command::new("cc")
-        .args([
-            "-std=c99",
-            "-Wall",
-            "-Wextra",
-            "-pedantic",
-            "-Werror",
-            "-c",
-            "use.c",
-            "-o",
-            "use.o",
-            "-I",
-        ])
-        .arg(&inc)
-        .current_dir(&dir)
-        .output()
-        .expect("cc");
+    let out = common::cc_strict(&dir, "-std=c99", &["-I".as_ref(), inc.as_os_str()]);
     assert!(
         out.status.success(),
         "{decl}\n{}",

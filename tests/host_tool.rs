@@ -12,6 +12,8 @@
 //! Golden files live in tests/golden/; after an intended change, regenerate them with
 //! `KICKGUARD_BLESS=1 cargo test --features host --test host_tool` and review the diff.
 
+mod common;
+
 use kickguard::host::checks::Status;
 use kickguard::host::{analyse_text, output, write_outputs, HostError, Options};
 use std::path::{Path, PathBuf};
@@ -148,21 +150,7 @@ fn generated_c_header_compiles_as_c99_and_c11() {
     )
     .unwrap();
     for std in ["-std=c99", "-std=c11"] {
-        let out = Command::new("cc")
-            .args([
-                std,
-                "-Wall",
-                "-Wextra",
-                "-pedantic",
-                "-Werror",
-                "-c",
-                "use.c",
-                "-o",
-                "use.o",
-            ])
-            .current_dir(&dir)
-            .output()
-            .expect("the machine's C compiler (cc)");
+        let out = common::cc_strict(&dir, std, &[]);
         assert!(
             out.status.success(),
             "{std}: {}",

@@ -3,7 +3,7 @@
 //! Everything here is written from published formulas, in f64, without calling the crate's f32
 //! model code: the exact SI 2019 constants (CODATA 2018) and the SPICE2 diode equations
 //! (L. W. Nagel, "SPICE2: A computer program to simulate semiconductor circuits",
-//! UC Berkeley ERL-M520, 1975).
+//! UC Berkeley ERL-M520, 1975). Also the one strict C compile the generated-header tests share.
 #![allow(dead_code)]
 
 pub mod ode;
@@ -97,3 +97,19 @@ pub fn simpson_decay(l: f64, i0: f64, i1: f64, n: usize, g: &dyn Fn(f64) -> f64)
 }
 
 pub mod spice;
+
+/// Compiles `use.c` in `dir` to `use.o` with the machine's C compiler (`cc`) under `std`
+/// (e.g. `-std=c99`), pedantic with every warning an error, plus the `extra` flags.
+pub fn cc_strict(
+    dir: &std::path::Path,
+    std: &str,
+    extra: &[&std::ffi::OsStr],
+) -> std::process::Output {
+    std::process::Command::new("cc")
+        .args([std, "-Wall", "-Wextra", "-pedantic", "-Werror"])
+        .args(extra)
+        .args(["-c", "use.c", "-o", "use.o"])
+        .current_dir(dir)
+        .output()
+        .expect("the machine's C compiler (cc)")
+}
