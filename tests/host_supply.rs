@@ -183,6 +183,7 @@ fn events_of_the_design_and_unknown_profiles() {
     let r = analyse(&text);
     let c = checks(&r, "event_switch_voltage");
     assert_eq!(c.len(), 1);
+    // The 6 V event plus the 0.8 V freewheeling diode (arithmetic).
     assert!((c[0].value.unwrap() - 6.8).abs() < 1e-4 && c[0].note.contains("design file"));
     let bad = relay("profile = \"iso7637-2\"", diode, SWITCH);
     let e = analyse_text(&bad, "s.toml", &Options::default())
