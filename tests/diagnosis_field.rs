@@ -462,37 +462,10 @@ impl Rng {
     }
 }
 
-/// A random circuit of `cond` inside the tolerances; None for a condition with no decay.
+/// A random circuit of `cond` inside the tolerances (a random unit at random conditions); None
+/// for a condition with no decay.
 fn circuit(s: &Spec, cond: Condition, rng: &mut Rng) -> Option<Circuit> {
-    let mut u = || rng.unit();
-    let (hot_lo, hot_hi) = (T_AMB.1 + HEAT, T_AMB.1 + HEAT + FAULT_HOT);
-    let tw = if cond == Condition::CoilTooHot {
-        hot_lo + (hot_hi - hot_lo) * u()
-    } else {
-        T_AMB.0 + (hot_lo - T_AMB.0) * u()
-    };
-    let (fl, fr) = if cond == Condition::ShortedTurns {
-        ((1.0 - SHORTED) * (1.0 - SHORTED), 1.0 - SHORTED)
-    } else {
-        (1.0, 1.0)
-    };
-    let l = s.l * fl * (1.0 - s.l_tol + 2.0 * s.l_tol * u());
-    let r = s.r20 * fr * (0.93 + 0.14 * u()) * (1.0 + 0.00393 * (tw - 20.0));
-    let vs = s.vs * (0.9 + 0.2 * u());
-    let t = |u: f64| T_AMB.0 + (T_AMB.1 - T_AMB.0) * u;
-    let c = Circuit {
-        l,
-        r,
-        vs,
-        i0: vs / r,
-        td: t(u()),
-        tb: t(u()),
-        tsw: t(u()),
-        kc: 1.0 - CLAMP_TOL + 2.0 * CLAMP_TOL * u(),
-        ka: 1.0 - AV_TOL + 2.0 * AV_TOL * u(),
-        open: cond == Condition::ClampOpen,
-        zener_shorted: cond == Condition::ZenerShorted,
-    };
+    let c = Unit::draw(s, rng).at(s, cond, rng);
     match cond {
         Condition::CoilOpen => None,
         Condition::ClampOpen if matches!(s.kind, Kind::Avalanche) => None,
@@ -537,18 +510,7 @@ fn lib_measurement(m: &Meas) -> Measurement {
 
 /// Compensated tables: 4 supply bins, 6 on-current bins over the healthy on-current range.
 fn compensated(d: &Design, s: &Spec, m: &Measurement, t: &Timing) -> CompensatedWindows<4, 6> {
-    let supply = [0.95, 1.0, 1.05, 1.1].map(|k| Volts::new((s.vs * k) as f32).unwrap());
-    let r_lo = s.r20 * 0.93 * (1.0 + 0.00393 * (T_AMB.0 - 20.0));
-    let r_hi = s.r20 * 1.07 * (1.0 + 0.00393 * (T_AMB.1 + HEAT - 20.0));
-    let (i_lo, i_hi) = (0.9 * s.vs / r_hi, 1.1 * s.vs / r_lo);
-    let current = [1.0, 2.0, 3.0, 4.0, 5.0, 6.0]
-        .map(|k| Amps::new((i_lo + (i_hi - i_lo) * k / 6.0) as f32).unwrap());
-    let acc = MeasuredAccuracy {
-        supply: 0.01,
-        current: 0.01,
-        supply_step: 0.0,
-        current_step: 0.0,
-    };
+    let (supply, current, acc) = bins(s);
     d.compensated_tick_windows(m, t, &acc, supply, current)
         .unwrap()
 }
@@ -775,4 +737,256 @@ fn proposed_comparator_holds_on_the_independent_circuits() {
     }
     // Every design with a clamp that can open gets a proposal (the avalanche design has none).
     assert_eq!(proposed, 13);
+}
+
+/// What belongs to one unit: its inductance, its resistance tolerance factor and its parts'
+/// breakdown tolerances (the clamp's, the switch avalanche's).
+#[derive(Clone, Copy, Debug)]
+struct Unit {
+    l: f64,
+    rf: f64,
+    kc: f64,
+    ka: f64,
+}
+
+impl Unit {
+    fn draw(s: &Spec, rng: &mut Rng) -> Unit {
+        let mut u = || rng.unit();
+        Unit {
+            l: s.l * (1.0 - s.l_tol + 2.0 * s.l_tol * u()),
+            rf: 0.93 + 0.14 * u(),
+            kc: 1.0 - CLAMP_TOL + 2.0 * CLAMP_TOL * u(),
+            ka: 1.0 - AV_TOL + 2.0 * AV_TOL * u(),
+        }
+    }
+
+    /// This unit under `cond` at random conditions of the design's range: supply, winding
+    /// temperature (healthy range, or above it for a coil too hot), the clamp parts'
+    /// temperatures.
+    fn at(&self, s: &Spec, cond: Condition, rng: &mut Rng) -> Circuit {
+        let mut u = || rng.unit();
+        let (hot_lo, hot_hi) = (T_AMB.1 + HEAT, T_AMB.1 + HEAT + FAULT_HOT);
+        let tw = if cond == Condition::CoilTooHot {
+            hot_lo + (hot_hi - hot_lo) * u()
+        } else {
+            T_AMB.0 + (hot_lo - T_AMB.0) * u()
+        };
+        let (fl, fr) = if cond == Condition::ShortedTurns {
+            ((1.0 - SHORTED) * (1.0 - SHORTED), 1.0 - SHORTED)
+        } else {
+            (1.0, 1.0)
+        };
+        let r = s.r20 * fr * self.rf * (1.0 + 0.00393 * (tw - 20.0));
+        let vs = s.vs * (0.9 + 0.2 * u());
+        let t = |u: f64| T_AMB.0 + (T_AMB.1 - T_AMB.0) * u;
+        Circuit {
+            l: self.l * fl,
+            r,
+            vs,
+            i0: vs / r,
+            td: t(u()),
+            tb: t(u()),
+            tsw: t(u()),
+            kc: self.kc,
+            ka: self.ka,
+            open: cond == Condition::ClampOpen,
+            zener_shorted: cond == Condition::ZenerShorted,
+        }
+    }
+}
+
+/// The firmware's view of one switch-off: supply (mV) and on-current (µA) read within ±1 %,
+/// the decay timed at `f` by a timer of random phase with ±2 ticks of jitter.
+fn firmware_reading(s: &Spec, c: &Circuit, m: &Meas, f: f64, rng: &mut Rng) -> (u32, u32, u32) {
+    let t_true = reading(s, c, m);
+    let jitter = (rng.unit() * 5.0).floor() as i64 - 2;
+    let ticks = ((t_true * f + rng.unit()).floor() as i64 + jitter).max(0) as u32;
+    let mv = (c.vs * (0.99 + 0.02 * rng.unit()) * 1e3) as u32;
+    let ua = (c.i0 * (0.99 + 0.02 * rng.unit()) * 1e6) as u32;
+    (mv, ua, ticks)
+}
+
+/// The unit learner's tally for one design: healthy readings judged and departures among them;
+/// shorted-turn readings and those caught (departure or fault); open-clamp readings and those
+/// caught; too-hot readings and those caught (resistance limit, departure or fault).
+#[derive(Default, Debug, Clone, Copy)]
+struct UnitTally {
+    healthy: u32,
+    departures: u32,
+    shorted: u32,
+    shorted_caught: u32,
+    open: u32,
+    open_caught: u32,
+    hot: u32,
+    hot_caught: u32,
+    /// Negative control: departures of the fixed-window learner on the same healthy readings.
+    fixed_departures: u32,
+}
+
+const UNITS: usize = 4;
+const LEARN_N: usize = 8;
+const JUDGED: usize = 40;
+
+/// One design, one measurement, one clock: UNITS units, each learned at one random point of
+/// the range (all LEARN_N readings there) and judged at JUDGED random points, healthy and with
+/// each fault.
+fn unit_run(s: &Spec, m: &Meas, f: f64, seed: u64) -> UnitTally {
+    use kickguard::diagnosis::learn::{Learner, Reading as LearnReading};
+    use kickguard::diagnosis::unit::{UnitLearner, UnitReading};
+    let d = design(s);
+    let lm = lib_measurement(m);
+    let timing = Timing {
+        tick: Hertz::new(f as f32).unwrap(),
+        guard: Duty::new(0.02).unwrap(),
+        jitter_ticks: 2,
+    };
+    let (supply, current, acc) = bins(s);
+    let table = d.unit_table(&lm, &timing, &acc, supply, current).unwrap();
+    let limit = d.resistance_limit(&acc).unwrap();
+    let plain = d.tick_windows(&lm, &timing).unwrap();
+    let mut rng = Rng(seed);
+    let mut t = UnitTally::default();
+    for _ in 0..UNITS {
+        let unit = Unit::draw(s, &mut rng);
+        let mut l: UnitLearner<LEARN_N> = UnitLearner::new(&table).unwrap();
+        let mut fixed: Learner<LEARN_N> = Learner::new(plain, 2).unwrap();
+        let here = unit.at(s, Condition::Healthy, &mut rng);
+        while !l.learned() {
+            let (mv, ua, ticks) = firmware_reading(s, &here, m, f, &mut rng);
+            fixed.observe(ticks);
+            match l.observe(&table, mv, ua, ticks) {
+                UnitReading::Learning { .. } | UnitReading::Learned => {}
+                other => panic!(
+                    "{}: a healthy unit refused while learning: {other:?}",
+                    s.name
+                ),
+            }
+        }
+        // Persisted and restored before it judges.
+        let bytes = l.state_bytes().unwrap();
+        let mut l: UnitLearner<LEARN_N> = UnitLearner::resume(&table, &bytes).unwrap();
+        for cond in [
+            Condition::Healthy,
+            Condition::ShortedTurns,
+            Condition::ClampOpen,
+            Condition::CoilTooHot,
+        ] {
+            if cond == Condition::ClampOpen && matches!(s.kind, Kind::Avalanche) {
+                continue;
+            }
+            for _ in 0..JUDGED {
+                let c = unit.at(s, cond, &mut rng);
+                let (mv, ua, ticks) = firmware_reading(s, &c, m, f, &mut rng);
+                let r = l.observe(&table, mv, ua, ticks);
+                let caught = !matches!(r, UnitReading::Healthy);
+                match cond {
+                    Condition::Healthy => {
+                        t.healthy += 1;
+                        t.departures += u32::from(caught);
+                        t.fixed_departures +=
+                            u32::from(fixed.observe(ticks) == LearnReading::Departure);
+                    }
+                    Condition::ShortedTurns => {
+                        t.shorted += 1;
+                        t.shorted_caught += u32::from(caught);
+                    }
+                    Condition::ClampOpen => {
+                        t.open += 1;
+                        t.open_caught += u32::from(caught);
+                    }
+                    _ => {
+                        t.hot += 1;
+                        t.hot_caught += u32::from(caught || limit.exceeded(mv, ua));
+                    }
+                }
+            }
+        }
+    }
+    t
+}
+
+/// The bins and the readings' accuracy of the compensated tables and the unit learner: supply
+/// edges at 95, 100, 105, 110 % of nominal, six on-current bins over the healthy on-current
+/// range, readings within ±1 %.
+fn bins(s: &Spec) -> ([Volts; 4], [Amps; 6], MeasuredAccuracy) {
+    let supply = [0.95, 1.0, 1.05, 1.1].map(|k| Volts::new((s.vs * k) as f32).unwrap());
+    let r_lo = s.r20 * 0.93 * (1.0 + 0.00393 * (T_AMB.0 - 20.0));
+    let r_hi = s.r20 * 1.07 * (1.0 + 0.00393 * (T_AMB.1 + HEAT - 20.0));
+    let (i_lo, i_hi) = (0.9 * s.vs / r_hi, 1.1 * s.vs / r_lo);
+    let current = [1.0, 2.0, 3.0, 4.0, 5.0, 6.0]
+        .map(|k| Amps::new((i_lo + (i_hi - i_lo) * k / 6.0) as f32).unwrap());
+    let acc = MeasuredAccuracy {
+        supply: 0.01,
+        current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
+    };
+    (supply, current, acc)
+}
+
+/// Issue: a unit that learned at one supply and temperature departed from its own window in
+/// most healthy readings elsewhere. The unit learner, learned at one random point of each
+/// design's range and judged at random points everywhere else against an independent
+/// integration of the circuit (Dormand–Prince, f64): no healthy reading departs; shorted turns,
+/// an open clamp and a coil too hot are caught (counted per design and printed with
+/// `cargo test --release --test diagnosis_field -- --nocapture`).
+#[test]
+fn a_unit_learned_anywhere_holds_everywhere() {
+    let mut all = UnitTally::default();
+    // Shorted-turn readings and those caught, on the current window at 1 MHz.
+    let mut current_1m = (0u32, 0u32);
+    println!(
+        "{:<30} {:>5} {:>8} {:>9} {:>11} {:>9}",
+        "design", "clock", "healthy", "departed", "shorted", "open"
+    );
+    for (k, s) in specs().iter().enumerate() {
+        let ms = measurements(s);
+        for (j, m) in ms.iter().take(2).enumerate() {
+            for f in [32_768.0, 1.0e6] {
+                let seed = 0x5EED + 100 * k as u64 + 10 * j as u64 + u64::from(f > 1e5);
+                let t = unit_run(s, m, f, seed);
+                println!(
+                    "{:<30} {:>5} {:>8} {:>9} {:>5}/{:<5} {:>4}/{:<4} hot {}/{}",
+                    s.name,
+                    if f > 1e5 { "1M" } else { "32k" },
+                    t.healthy,
+                    t.departures,
+                    t.shorted_caught,
+                    t.shorted,
+                    t.open_caught,
+                    t.open,
+                    t.hot_caught,
+                    t.hot
+                );
+                all.healthy += t.healthy;
+                all.departures += t.departures;
+                all.shorted += t.shorted;
+                all.shorted_caught += t.shorted_caught;
+                all.open += t.open;
+                all.open_caught += t.open_caught;
+                all.hot += t.hot;
+                all.hot_caught += t.hot_caught;
+                all.fixed_departures += t.fixed_departures;
+                if j == 1 && f > 1e5 {
+                    current_1m.0 += t.shorted;
+                    current_1m.1 += t.shorted_caught;
+                }
+            }
+        }
+    }
+    println!("all: {all:?}");
+    assert_eq!(all.departures, 0, "healthy readings departed: {all:?}");
+    assert!(all.healthy > 5_000);
+    // The negative control: the learner that keeps one fixed window departs on the same
+    // healthy readings (the field failure this learner replaces), so the count above can fail.
+    assert!(
+        all.fixed_departures > all.healthy / 4,
+        "the fixed-window control: {all:?}"
+    );
+    // Shorted turns (20 %: L·0.64) on the current window at 1 MHz: measured 99.6 % caught when
+    // written (the misses are readings whose shorted coil lands in a cell whose unit window is
+    // wider than the fall); a regression guard, not a promise.
+    let share = f64::from(current_1m.1) / f64::from(current_1m.0);
+    println!("shorted turns caught, current window at 1 MHz: {share:.4}");
+    assert!(share > 0.95, "shorted turns caught: {current_1m:?}");
 }

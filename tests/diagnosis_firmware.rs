@@ -16,6 +16,7 @@ use kickguard::diagnosis::compensate::MeasuredAccuracy;
 use kickguard::diagnosis::fit::fit_decay;
 use kickguard::diagnosis::hal::{time_current_window, time_flyback, MeasureError, TickCounter};
 use kickguard::diagnosis::learn::{LearnedWindow, Learner, Reading};
+use kickguard::diagnosis::unit::{UnitLearner, UnitReading, UnitTable};
 use kickguard::diagnosis::{
     Candidates, Condition, Design, Measurement, ShortedTurns, Timing, Verdict, Windows,
 };
@@ -161,12 +162,10 @@ fn ambiguous_verdicts_name_their_candidates() {
     }
 }
 
-#[test]
-fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
-    // Supply 20 … 28 V and R ± 20 % spread the healthy decay so wide that the open clamp's
-    // window overlaps it; measuring the supply and the on-current narrows each cell to what
-    // those readings leave open.
-    let mut d = design(0.05, 0.2);
+/// The valve on a 20 … 28 V supply with R ± 20 %, L ± `l_tol` and a fixed 0.8 V freewheeling
+/// diode, timed from 300 to 50 mA.
+fn wide_valve(l_tol: f32) -> (Design, Measurement) {
+    let mut d = design(l_tol, 0.2);
     d.v_supply_min = Volts::new(20.0).unwrap();
     d.v_supply_max = Volts::new(28.0).unwrap();
     d.clamp = Clamp::FreewheelDiode(Diode::FixedDrop(Volts::new(0.8).unwrap()));
@@ -174,6 +173,15 @@ fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
         upper: Amps::new(0.3).unwrap(),
         lower: Amps::new(0.05).unwrap(),
     };
+    (d, m)
+}
+
+#[test]
+fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
+    // Supply 20 … 28 V and R ± 20 % spread the healthy decay so wide that the open clamp's
+    // window overlaps it; measuring the supply and the on-current narrows each cell to what
+    // those readings leave open.
+    let (d, m) = wide_valve(0.05);
     let timing = Timing {
         tick: Hertz::new(32_768.0).unwrap(),
         guard: Duty::new(0.02).unwrap(),
@@ -233,6 +241,155 @@ fn compensation_narrows_the_healthy_window_and_shows_the_open_clamp() {
         want * 1000.0
     );
     assert!(lim.exceeded(24_000, 300_000) && !lim.exceeded(24_000, 400_000));
+}
+
+/// The unit learner's table on the compensation test's valve: supply 20 … 28 V, R ± 20 %,
+/// L ± `l_tol`, a fixed-drop freewheeling diode, the current window 300 → 50 mA at 1 MHz.
+fn unit_valve(l_tol: f32, guard: f32) -> UnitTable<8, 15> {
+    let (d, m) = wide_valve(l_tol);
+    let timing = Timing {
+        tick: Hertz::new(1.0e6).unwrap(),
+        guard: Duty::new(guard).unwrap(),
+        jitter_ticks: 2,
+    };
+    let acc = MeasuredAccuracy {
+        supply: 0.01,
+        current: 0.01,
+        supply_step: 0.0,
+        current_step: 0.0,
+    };
+    // Supply bins of 1 V, current bins of 20 mA: narrow cells, a tight unit window.
+    let supply: [Volts; 8] = core::array::from_fn(|k| Volts::new(21.0 + k as f32).unwrap());
+    let current: [Amps; 15] = core::array::from_fn(|k| Amps::new(0.34 + 0.02 * k as f32).unwrap());
+    d.unit_table(&m, &timing, &acc, supply, current).unwrap()
+}
+
+/// The firmware's readings of a unit of inductance `l` and resistance `r` at supply `v`: the
+/// supply in mV, the on-current V/R in µA, and the decay from 300 to 50 mA in 1 µs ticks by the
+/// constant-clamp closed form (Horowitz & Hill) with the diode's 0.8 V.
+fn unit_reading(l: f64, r: f64, v: f64) -> (u32, u32, u32) {
+    let t = t_fall(l, r, 0.8, 0.3, 0.05);
+    (
+        (v * 1e3).round() as u32,
+        (v / r * 1e6).round() as u32,
+        (t * 1e6).round() as u32,
+    )
+}
+
+#[test]
+fn a_unit_learned_at_one_supply_holds_at_another() {
+    let table = unit_valve(0.1, 0.02);
+    assert_eq!(table.scale_ppm, (900_000, 1_100_000));
+    assert_eq!(table.reading_halfwidth_ticks, 3);
+    // This unit: L 9 % above nominal, R 60 Ω. It learns at 21 V, all eight readings there.
+    let (l, r) = (0.35 * 1.09, 60.0);
+    let mut u: UnitLearner<8> = UnitLearner::new(&table).unwrap();
+    let (mv, ua, ticks) = unit_reading(l, r, 21.0);
+    for k in 1..=8u16 {
+        let want = if k < 8 {
+            UnitReading::Learning { seen: k }
+        } else {
+            UnitReading::Learned
+        };
+        assert_eq!(u.observe(&table, mv, ua, ticks + u32::from(k % 2)), want);
+    }
+    // Judged at 27 V: the same unit, healthy; shorted turns (L·0.64, R·0.8) depart or fault.
+    for v in [20.5, 23.0, 25.0, 27.0, 27.9] {
+        let (mv, ua, ticks) = unit_reading(l, r, v);
+        assert_eq!(
+            u.observe(&table, mv, ua, ticks),
+            UnitReading::Healthy,
+            "{v} V"
+        );
+        let (mv, ua, ticks) = unit_reading(l * 0.64, r * 0.8, v);
+        assert!(
+            matches!(
+                u.observe(&table, mv, ua, ticks),
+                UnitReading::Departure | UnitReading::Fault(_)
+            ),
+            "shorted turns read healthy at {v} V"
+        );
+    }
+    // A unit 9 % below nominal at 27 V: healthy by the design, not this unit.
+    let (mv, ua, ticks) = unit_reading(0.35 * 0.91, r, 27.0);
+    assert_eq!(
+        table.design.classify(mv, ua, ticks),
+        Verdict::Healthy,
+        "the design admits it"
+    );
+    assert_eq!(u.observe(&table, mv, ua, ticks), UnitReading::Departure);
+
+    // Persisted, restored, judged the same.
+    let bytes = u.state_bytes().unwrap();
+    let mut back: UnitLearner<8> = UnitLearner::resume(&table, &bytes).unwrap();
+    assert_eq!(back.state(), u.state());
+    let (mv, ua, ticks) = unit_reading(l, r, 24.0);
+    assert_eq!(back.observe(&table, mv, ua, ticks), UnitReading::Healthy);
+    // Any flipped bit is caught (the checksum, or the version and fingerprint it covers).
+    for k in 0..bytes.len() {
+        let mut bad = bytes;
+        bad[k] ^= 0x10;
+        assert!(UnitLearner::<8>::resume(&table, &bad).is_err(), "byte {k}");
+    }
+    // A state learned against another table (another guard) is refused.
+    let other = unit_valve(0.1, 0.05);
+    assert_ne!(other.fingerprint(), table.fingerprint());
+    assert!(UnitLearner::<8>::resume(&other, &bytes).is_err());
+    // Nothing learned, nothing to persist; a learner too small is refused.
+    assert!(UnitLearner::<8>::new(&table)
+        .unwrap()
+        .state_bytes()
+        .is_none());
+    assert!(UnitLearner::<2>::new(&table).is_err());
+}
+
+#[test]
+fn a_unit_learner_refuses_faults_and_two_units() {
+    let table = unit_valve(0.3, 0.02);
+    let mut u: UnitLearner<8> = UnitLearner::new(&table).unwrap();
+    let r = 56.0;
+    // Learning never starts from a fault: an open clamp (the switch's 66 V less the 24 V
+    // supply across the coil) restarts it.
+    let (mv, ua, _) = unit_reading(0.35, r, 24.0);
+    let open = (t_fall(0.35, r, 42.0, 0.3, 0.05) * 1e6).round() as u32;
+    let (_, _, ok) = unit_reading(0.35, r, 24.0);
+    assert_eq!(
+        u.observe(&table, mv, ua, ok),
+        UnitReading::Learning { seen: 1 }
+    );
+    assert_eq!(
+        u.observe(&table, mv, ua, open),
+        UnitReading::Refused(Verdict::Fault(Condition::ClampOpen))
+    );
+    assert_eq!(
+        u.observe(&table, mv, ua, ok),
+        UnitReading::Learning { seen: 1 }
+    );
+    // Two readings each healthy for the design (L 25 % above and 25 % below nominal, same
+    // conditions) that no single unit gives: refused, learning restarts.
+    let (_, _, high) = unit_reading(0.35 * 1.25, r, 24.0);
+    let (_, _, low) = unit_reading(0.35 * 0.75, r, 24.0);
+    assert_eq!(table.design.classify(mv, ua, high), Verdict::Healthy);
+    assert_eq!(table.design.classify(mv, ua, low), Verdict::Healthy);
+    // (The nominal reading learned so far is itself 25 % from `high`: no unit gives both.)
+    assert_eq!(u.observe(&table, mv, ua, high), UnitReading::NotOneUnit);
+    assert_eq!(
+        u.observe(&table, mv, ua, high),
+        UnitReading::Learning { seen: 1 }
+    );
+    assert_eq!(u.observe(&table, mv, ua, low), UnitReading::NotOneUnit);
+    assert_eq!(
+        u.observe(&table, mv, ua, low),
+        UnitReading::Learning { seen: 1 }
+    );
+    // Hostile readings: no panic, a verdict.
+    for (mv, ua, t) in [
+        (0, 0, 0),
+        (u32::MAX, u32::MAX, u32::MAX),
+        (24_000, 1, u32::MAX),
+    ] {
+        let _ = u.observe(&table, mv, ua, t);
+    }
 }
 
 #[test]

@@ -51,7 +51,7 @@ pub struct MeasuredAccuracy {
 
 /// The readings' errors: relative (supply, current) and half a step each (V, A).
 #[derive(Debug, Clone, Copy)]
-struct Acc {
+pub(super) struct Acc {
     ev: f32,
     ei: f32,
     hv: f32,
@@ -97,11 +97,17 @@ impl<const S: usize, const C: usize> CompensatedWindows<S, C> {
     /// report of what each cell can tell apart. None only with no bins. Work: S + C
     /// comparisons.
     pub fn cell(&self, supply_mv: u32, on_current_ua: u32) -> Option<&Windows> {
-        let (s, c) = (
+        let (s, c) = self.bins(supply_mv, on_current_ua);
+        self.windows.get(s).and_then(|row| row.get(c))
+    }
+
+    /// The (supply bin, current bin) of the measured supply (mV) and on-current (µA). Work:
+    /// S + C comparisons.
+    pub fn bins(&self, supply_mv: u32, on_current_ua: u32) -> (usize, usize) {
+        (
             bin(&self.supply_edges_mv, supply_mv),
             bin(&self.current_edges_ua, on_current_ua),
-        );
-        self.windows.get(s).and_then(|row| row.get(c))
+        )
     }
 }
 
@@ -122,9 +128,18 @@ impl ResistanceLimit {
     }
 }
 
+/// The factor ranges a cell window spans: the inductance, the clamp's breakdown and the
+/// switch avalanche's breakdown (each a (low, high) factor on its nominal).
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct Span {
+    pub(crate) inductance: (f32, f32),
+    pub(crate) clamp: (f32, f32),
+    pub(crate) avalanche: (f32, f32),
+}
+
 /// The resistance range each condition allows, Ω (before the cell's own limits).
-struct Ranges {
-    healthy: (f32, f32),
+pub(super) struct Ranges {
+    pub(super) healthy: (f32, f32),
     shorted: (f32, f32),
     hot: (f32, f32),
 }
@@ -139,7 +154,7 @@ impl Design {
         ))
     }
 
-    fn ranges(&self) -> Result<Ranges, Error> {
+    pub(super) fn ranges(&self) -> Result<Ranges, Error> {
         let healthy = self.r_range(self.t_winding_min, self.t_winding_max)?;
         let (_, fr) = self.shorted_factors()?;
         Ok(Ranges {
@@ -211,53 +226,74 @@ impl Design {
         self.check()?;
         timing.validate()?;
         let a = accuracy(acc)?;
-        let (ev, ei) = (a.ev, a.ei);
         let sv = edges("supply edges", &supply_edges.map(|v| v.value()))?;
         let ci = edges("current edges", &current_edges.map(|a| a.value()))?;
         if S > 0 && !(supply_edges.last().is_some_and(|e| *e >= self.v_supply_max)) {
             return Err(Error::new("supply edges", Reason::Inconsistent));
         }
         let ranges = self.ranges()?;
-        let i_top = self.v_supply_max.value() * (1.0 + ev) / ranges.shorted.0.max(1e-30);
+        let i_top = self.i_top(&a, &ranges);
         let mut out = CompensatedWindows {
             supply_edges_mv: scaled_edges("supply edges", &sv, 1e3)?,
             current_edges_ua: scaled_edges("current edges", &ci, 1e6)?,
             windows: [[Windows::from_entries([Entry::EMPTY; MAX_WINDOWS], 0); C]; S],
         };
         for (k, row) in (0..S).zip(out.windows.iter_mut()) {
-            let v_lo = if k == 0 {
-                self.v_supply_min.value()
-            } else {
-                sv.get(k - 1).copied().unwrap_or(0.0)
-            };
-            let v_hi = sv
-                .get(k)
-                .copied()
-                .unwrap_or(v_lo)
-                .min(self.v_supply_max.value());
-            let v = (
-                ((v_lo - a.hv) * (1.0 - ev)).max(self.v_supply_min.value()),
-                ((v_hi + a.hv) * (1.0 + ev)).min(self.v_supply_max.value()),
-            );
             for (j, cell) in (0..C).zip(row.iter_mut()) {
-                let i_lo = if j == 0 {
-                    0.0
-                } else {
-                    ci.get(j - 1).copied().unwrap_or(0.0)
-                };
-                let i_hi = if j + 1 == C {
-                    i_top.max(i_lo)
-                } else {
-                    ci.get(j).copied().unwrap_or(i_lo)
-                };
-                let i = (
-                    ((i_lo - a.hi) * (1.0 - ei)).max(0.0),
-                    (i_hi + a.hi) * (1.0 + ei),
-                );
+                let (v, i) = self.cell_readings(&a, &sv, &ci, i_top, k, j);
                 *cell = self.cell_windows(m, timing, &ranges, v, i)?;
             }
         }
         Ok(out)
+    }
+
+    /// The highest on-current any condition's cell can hold: the highest supply over the
+    /// lowest shorted-turns resistance, read high.
+    pub(super) fn i_top(&self, a: &Acc, ranges: &Ranges) -> f32 {
+        self.v_supply_max.value() * (1.0 + a.ev) / ranges.shorted.0.max(1e-30)
+    }
+
+    /// The true supply and on-current a cell can hold: cell (k, j) of the bins `sv`, `ci`
+    /// (upper edges, V and A), widened by the readings' accuracy and limited to the design's
+    /// supply range; the last current bin reaches `i_top`.
+    pub(super) fn cell_readings<const S: usize, const C: usize>(
+        &self,
+        a: &Acc,
+        sv: &[f32; S],
+        ci: &[f32; C],
+        i_top: f32,
+        k: usize,
+        j: usize,
+    ) -> ((f32, f32), (f32, f32)) {
+        let v_lo = if k == 0 {
+            self.v_supply_min.value()
+        } else {
+            sv.get(k - 1).copied().unwrap_or(0.0)
+        };
+        let v_hi = sv
+            .get(k)
+            .copied()
+            .unwrap_or(v_lo)
+            .min(self.v_supply_max.value());
+        let v = (
+            ((v_lo - a.hv) * (1.0 - a.ev)).max(self.v_supply_min.value()),
+            ((v_hi + a.hv) * (1.0 + a.ev)).min(self.v_supply_max.value()),
+        );
+        let i_lo = if j == 0 {
+            0.0
+        } else {
+            ci.get(j - 1).copied().unwrap_or(0.0)
+        };
+        let i_hi = if C.checked_sub(1) == Some(j) {
+            i_top.max(i_lo)
+        } else {
+            ci.get(j).copied().unwrap_or(i_lo)
+        };
+        let i = (
+            ((i_lo - a.hi) * (1.0 - a.ei)).max(0.0),
+            (i_hi + a.hi) * (1.0 + a.ei),
+        );
+        (v, i)
     }
 
     /// The windows of one cell: supply range `v`, on-current range `i`.
@@ -269,10 +305,6 @@ impl Design {
         v: (f32, f32),
         i: (f32, f32),
     ) -> Result<Windows, Error> {
-        let r_cell = (
-            v.0 / i.1.max(1e-30),
-            if i.0 > 0.0 { v.1 / i.0 } else { f32::INFINITY },
-        );
         tick_table(timing, |cond| {
             Ok(match cond {
                 Condition::CoilOpen if i.0 <= 0.0 => Some(TimeWindow {
@@ -286,18 +318,17 @@ impl Design {
                         Condition::CoilTooHot => ranges.hot,
                         _ => ranges.healthy,
                     };
-                    let r = (r_cell.0.max(allowed.0), r_cell.1.min(allowed.1));
-                    if r.0 > r.1 {
-                        None
-                    } else {
-                        self.cell_window(cond, m, v, (i.0.max(v.0 / r.1), i.1.min(v.1 / r.0)), r)?
+                    match cell_resistance(v, i, allowed) {
+                        None => None,
+                        Some((i, r)) => self.cell_window(cond, m, v, i, r)?,
                     }
                 }
             })
         })
     }
 
-    /// One condition's window over a cell: supply `v`, start current `i`, resistance `r`.
+    /// One condition's window over a cell: supply `v`, start current `i`, resistance `r`, over
+    /// the design's inductance and breakdown tolerances.
     fn cell_window(
         &self,
         cond: Condition,
@@ -306,6 +337,29 @@ impl Design {
         i: (f32, f32),
         r: (f32, f32),
     ) -> Result<Option<TimeWindow>, Error> {
+        let (lt, ct, at) = (
+            self.inductance_tolerance,
+            self.clamp_tolerance,
+            self.avalanche_tolerance,
+        );
+        let span = Span {
+            inductance: (1.0 - lt, 1.0 + lt),
+            clamp: (1.0 - ct, 1.0 + ct),
+            avalanche: (1.0 - at, 1.0 + at),
+        };
+        self.cell_window_over(cond, m, (v, i, r), &span)
+    }
+
+    /// One condition's window over a cell (supply, start current, resistance ranges) and the
+    /// factor ranges of `span`: 2⁹ corners.
+    pub(crate) fn cell_window_over(
+        &self,
+        cond: Condition,
+        m: &Measurement,
+        cell: ((f32, f32), (f32, f32), (f32, f32)),
+        span: &Span,
+    ) -> Result<Option<TimeWindow>, Error> {
+        let (v, i, r) = cell;
         let (fl, _) = self.shorted_factors()?;
         let (clamp, l_scale, avalanche) = match cond {
             Condition::Healthy | Condition::CoilTooHot => {
@@ -330,17 +384,17 @@ impl Design {
         let mut acc = (f32::INFINITY, f32::NEG_INFINITY);
         for k in 0u32..512 {
             let pick = |bit: u32, lo: f32, hi: f32| if k & (1 << bit) == 0 { lo } else { hi };
-            let lt = self.inductance_tolerance;
-            let l = self.coil.inductance().value() * l_scale * pick(0, 1.0 - lt, 1.0 + lt);
+            let l = self.coil.inductance().value()
+                * l_scale
+                * pick(0, span.inductance.0, span.inductance.1);
             let coil = Coil::fixed(Henries::new(l)?, Ohms::new(pick(1, r.0, r.1))?)?;
             let (c_lo, c_hi) = (self.t_clamp_min.kelvin(), self.t_clamp_max.kelvin());
             let t_switch = Temperature::from_kelvin(pick(6, c_lo, c_hi))?;
-            let (ct, at) = (self.clamp_tolerance, self.avalanche_tolerance);
             let (tol, t_bd) = if avalanche {
-                (pick(8, 1.0 - at, 1.0 + at), t_switch)
+                (pick(8, span.avalanche.0, span.avalanche.1), t_switch)
             } else {
                 (
-                    pick(7, 1.0 - ct, 1.0 + ct),
+                    pick(7, span.clamp.0, span.clamp.1),
                     Temperature::from_kelvin(pick(5, c_lo, c_hi))?,
                 )
             };
@@ -362,8 +416,27 @@ impl Design {
     }
 }
 
+/// The resistance a cell of supply `v` and on-current `i` holds within `allowed` (the
+/// condition's range), with the on-current narrowed to it: R in [V_lo/I_hi, V_hi/I_lo] ∩
+/// allowed; None when they do not meet.
+pub(super) fn cell_resistance(
+    v: (f32, f32),
+    i: (f32, f32),
+    allowed: (f32, f32),
+) -> Option<((f32, f32), (f32, f32))> {
+    let r_cell = (
+        v.0 / i.1.max(1e-30),
+        if i.0 > 0.0 { v.1 / i.0 } else { f32::INFINITY },
+    );
+    let r = (r_cell.0.max(allowed.0), r_cell.1.min(allowed.1));
+    if r.0 > r.1 {
+        return None;
+    }
+    Some(((i.0.max(v.0 / r.1), i.1.min(v.1 / r.0)), r))
+}
+
 /// The two accuracies, checked.
-fn accuracy(acc: &MeasuredAccuracy) -> Result<Acc, Error> {
+pub(super) fn accuracy(acc: &MeasuredAccuracy) -> Result<Acc, Error> {
     let m = "measurement accuracy";
     Ok(Acc {
         ev: error::within(m, acc.supply, 0.0, 0.2)?,
@@ -375,7 +448,7 @@ fn accuracy(acc: &MeasuredAccuracy) -> Result<Acc, Error> {
 }
 
 /// Edges checked positive and strictly increasing.
-fn edges<const N: usize>(name: &'static str, e: &[f32; N]) -> Result<[f32; N], Error> {
+pub(super) fn edges<const N: usize>(name: &'static str, e: &[f32; N]) -> Result<[f32; N], Error> {
     let mut prev = 0.0f32;
     for x in e {
         if !(*x > prev) {
@@ -389,7 +462,7 @@ fn edges<const N: usize>(name: &'static str, e: &[f32; N]) -> Result<[f32; N], E
 /// Edges in milli- or micro-units, rounded to the nearest; an edge beyond u32 is refused, and
 /// so are edges that round to the same (or a lower) integer than the one before, which would
 /// leave a bin no reading can select.
-fn scaled_edges<const N: usize>(
+pub(super) fn scaled_edges<const N: usize>(
     name: &'static str,
     e: &[f32; N],
     scale: f32,

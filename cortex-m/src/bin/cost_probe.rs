@@ -15,7 +15,10 @@
 //! - fit: 8 / 64 samples;
 //! - learner: one reading while learning (the 15th) / the reading that completes 16 (sort,
 //!   median, MAD), each the difference of two probes fed one reading apart; the stack includes
-//!   the `Learner<16>` the probe holds.
+//!   the `Learner<16>` the probe holds;
+//! - unit learner: one reading while learning (the 7th of 8, difference of two probes) / one
+//!   judged reading once learned (learning and judging both narrow every segment: the same
+//!   work, first cell / last cell of a 4 × 6 table); the stack includes the `UnitLearner<8>`.
 #![no_std]
 #![no_main]
 
@@ -28,6 +31,7 @@ use kickguard::diagnosis::compensate::{CompensatedWindows, ResistanceLimit};
 use kickguard::diagnosis::fit::fit_decay;
 use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::learn::{LearnedWindow, Learner};
+use kickguard::diagnosis::unit::{UnitCell, UnitLearner, UnitTable};
 use kickguard::diagnosis::{Condition, Verdict};
 use kickguard::diode::DiodeParams;
 use kickguard::rating::ThermalPath;
@@ -228,6 +232,41 @@ probe!(
     probe_learned_from_bytes,
     LearnedWindow::from_bytes(bb(&[1, 20, 0, 0, 0, 50, 0, 0, 0]), &WINDOWS)
 );
+/// The unit learner's table on the compensated table's cells (segment windows of 25 … 41
+/// ticks, in sixteenths, inside the healthy window 10 … 60).
+static UNIT: UnitTable<4, 6> = UnitTable {
+    design: COMPENSATED,
+    cells: [[UnitCell {
+        lo: [400, 420, 440, 460],
+        hi: [600, 620, 640, 660],
+    }; 6]; 4],
+    scale_ppm: (900_000, 1_100_000),
+    reading_halfwidth_ticks: 3,
+};
+/// A unit learner fed `n` healthy readings: the first 8 in the first cell (it learns), any
+/// later one in the last cell (judged); the last reading's result.
+fn unit_learn(n: u32) -> Option<kickguard::diagnosis::unit::UnitReading> {
+    let mut l = UnitLearner::<8>::new(&UNIT).ok()?;
+    let mut last = None;
+    for k in 0..bb(n) {
+        let (mv, ua) = if k < 8 {
+            (21_000, 290_000)
+        } else {
+            (30_000, 600_000)
+        };
+        last = Some(l.observe(&UNIT, bb(mv), bb(ua), bb(30 + k % 3)));
+    }
+    last
+}
+probe!(probe_unit_new, UnitLearner::<8>::new(&UNIT).is_ok());
+probe!(probe_unit_6, unit_learn(6));
+probe!(probe_unit_7, unit_learn(7));
+probe!(probe_unit_8, unit_learn(8));
+probe!(probe_unit_9, unit_learn(9));
+probe!(
+    probe_unit_resume,
+    UnitLearner::<8>::resume(&UNIT, bb(&[0u8; kickguard::diagnosis::unit::STATE_BYTES])).is_ok()
+);
 #[cfg(feature = "micromath")]
 probe!(
     probe_fast_drop_typical,
@@ -284,6 +323,12 @@ static PROBES: &[extern "C" fn() -> u32] = &[
     probe_learn_15,
     probe_learn_16,
     probe_learned_from_bytes,
+    probe_unit_new,
+    probe_unit_6,
+    probe_unit_7,
+    probe_unit_8,
+    probe_unit_9,
+    probe_unit_resume,
     #[cfg(feature = "micromath")]
     probe_fast_drop_typical,
     #[cfg(feature = "micromath")]

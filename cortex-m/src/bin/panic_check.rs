@@ -531,6 +531,37 @@ fn input_protection() -> Result<(), Error> {
     Ok(())
 }
 
+/// The unit learner: its table at configuration time, then learning, persisting, restoring,
+/// judging, every reading kind.
+fn unit_learner(
+    design: &kickguard::diagnosis::Design,
+    m: &kickguard::diagnosis::Measurement,
+    timing: &kickguard::diagnosis::Timing,
+    acc: &kickguard::diagnosis::compensate::MeasuredAccuracy,
+) -> Result<(), Error> {
+    use kickguard::diagnosis::unit::{UnitLearner, STATE_BYTES};
+    let table = design.unit_table(
+        m,
+        timing,
+        acc,
+        [Volts::new(bb(13.2))?],
+        [Amps::new(bb(0.1))?, Amps::new(bb(0.14))?],
+    )?;
+    bb(table.cell(bb(12_000), bb(110_000)).is_some());
+    bb(table.fingerprint());
+    let mut u: UnitLearner<8> = UnitLearner::new(&table)?;
+    for k in 0..12u32 {
+        bb(u.observe(&table, bb(12_000), bb(110_000 + k), bb(500 + k)));
+    }
+    bb((u.state(), u.learned(), u.state().alive()));
+    let bytes = u.state_bytes().unwrap_or([0u8; STATE_BYTES]);
+    if let Ok(mut back) = UnitLearner::<8>::resume(&table, bb(&bytes)) {
+        bb(back.observe(&table, bb(u32::MAX), bb(0), bb(u32::MAX)));
+    }
+    u.forget();
+    Ok(())
+}
+
 fn diagnosis() -> Result<(), Error> {
     use kickguard::diagnosis::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
     use kickguard::diagnosis::compensate::MeasuredAccuracy;
@@ -631,6 +662,7 @@ fn diagnosis() -> Result<(), Error> {
         bb(Learner::<8>::resume(w, bb(2), lw).is_ok());
     }
     learner.forget();
+    unit_learner(&design, &m, &timing, &acc)?;
     hal_routines();
     bb(w.entries()
         .fold(0u32, |n, e| n.saturating_add(e.hi.saturating_sub(e.lo))));

@@ -27,6 +27,7 @@ use kickguard::diagnosis::compensate::{CompensatedWindows, ResistanceLimit};
 use kickguard::diagnosis::fit::fit_decay;
 use kickguard::diagnosis::history::VerdictHistory;
 use kickguard::diagnosis::learn::{LearnedWindow, Learner, Reading};
+use kickguard::diagnosis::unit::{UnitCell, UnitLearner, UnitReading, UnitTable, SEGMENTS};
 use kickguard::diagnosis::{Condition, Verdict};
 
 /// Diagnosis windows as a firmware holds them: generated constants, built at compile time.
@@ -50,6 +51,17 @@ static COMPENSATED: CompensatedWindows<2, 3> = CompensatedWindows {
     supply_edges_mv: [24_000, 26_400],
     current_edges_ua: [400_000, 450_000, 500_000],
     windows: [[WINDOWS; 3]; 2],
+};
+
+/// The unit learner's table as generated constants, on the compensated table's cells.
+static UNIT: UnitTable<2, 3> = UnitTable {
+    design: COMPENSATED,
+    cells: [[UnitCell {
+        lo: [7_000; SEGMENTS],
+        hi: [8_000; SEGMENTS],
+    }; 3]; 2],
+    scale_ppm: (900_000, 1_100_000),
+    reading_halfwidth_ticks: 3,
 };
 
 /// A sample buffer as the ADC interrupt would have filled it.
@@ -120,6 +132,17 @@ fn run() -> Result<f32, Error> {
     }
     if let Some(lw) = learner.learned() {
         acc += LearnedWindow::from_bytes(&lw.to_bytes(), w).is_ok() as u32 as f32;
+    }
+    // The unit learner: learning across conditions, persisting, restoring, judging.
+    let unit = bb(&UNIT);
+    let mut u: UnitLearner<8> = UnitLearner::new(unit)?;
+    for k in 0..12u32 {
+        if let UnitReading::Departure = u.observe(unit, bb(24_000), bb(420_000), bb(450 + k)) {
+            acc += 1.0;
+        }
+    }
+    if let Some(b) = u.state_bytes() {
+        acc += UnitLearner::<8>::resume(unit, &b).is_ok() as u32 as f32;
     }
     Ok(acc)
 }
