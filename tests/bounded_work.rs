@@ -15,6 +15,7 @@ use kickguard::clamp::{ActiveClamp, Clamp, Operating, Sample, Side, SwitchOff};
 use kickguard::coil::Coil;
 use kickguard::diagnosis::compensate::MeasuredAccuracy;
 use kickguard::diagnosis::fit::fit_decay;
+use kickguard::diagnosis::unit::UnitLearner;
 use kickguard::diagnosis::{Condition, Design, Measurement, ShortedTurns, Timing, Windows};
 use kickguard::diode::{
     fit_three_points, fit_two_points, BandGap, Diode, DiodeParams, DropPoint, Ideality, Xti,
@@ -358,6 +359,19 @@ fn every_public_function_returns_promptly_on_hostile_input() {
                 [Volts::new(26.4).unwrap()],
                 [Amps::new(0.45).unwrap(), Amps::new(0.6).unwrap()],
             );
+            if let Ok(table) = design.unit_table(
+                &m,
+                &timing,
+                &acc,
+                [Volts::new(26.4).unwrap()],
+                [Amps::new(0.45).unwrap(), Amps::new(0.6).unwrap()],
+            ) {
+                if let Ok(mut u) = UnitLearner::<5>::new(&table) {
+                    for k in 0..8u32 {
+                        let _ = u.observe(&table, 24_000, 420_000, k.wrapping_mul(0x9E37_79B9));
+                    }
+                }
+            }
         }
         let _ = Windows::from_rows(&[[u32::MAX, u32::MAX, Condition::ClampOpen.code()]])
             .classify(u32::MAX);
