@@ -815,6 +815,8 @@ struct UnitTally {
     departures: u32,
     shorted: u32,
     shorted_caught: u32,
+    /// Shorted-turn readings the design's compensated windows alone call a fault.
+    shorted_by_design: u32,
     open: u32,
     open_caught: u32,
     hot: u32,
@@ -889,6 +891,7 @@ fn unit_run(s: &Spec, m: &Meas, f: f64, seed: u64) -> UnitTally {
                     Condition::ShortedTurns => {
                         t.shorted += 1;
                         t.shorted_caught += u32::from(caught);
+                        t.shorted_by_design += u32::from(matches!(r, UnitReading::Fault(_)));
                     }
                     Condition::ClampOpen => {
                         t.open += 1;
@@ -962,6 +965,7 @@ fn a_unit_learned_anywhere_holds_everywhere() {
                 all.departures += t.departures;
                 all.shorted += t.shorted;
                 all.shorted_caught += t.shorted_caught;
+                all.shorted_by_design += t.shorted_by_design;
                 all.open += t.open;
                 all.open_caught += t.open_caught;
                 all.hot += t.hot;
