@@ -41,6 +41,7 @@
 #[cfg(feature = "host")]
 extern crate std;
 
+pub mod armature;
 pub mod breakdown;
 pub mod clamp;
 pub mod coil;

@@ -275,6 +275,22 @@ impl SwitchOff {
         Ok(ia)
     }
 
+    /// The loop law g(i), V: what drives the coil's flux down while it carries `i`,
+    /// dλ/dt = −g(i) — the winding's R·i, the clamp's voltage and, for a clamp across the
+    /// switch, less the supply (0 < i ≤ start current). Independent of the coil's inductance,
+    /// which is why a moving armature ([`crate::armature`]) can use it.
+    ///
+    /// # Errors
+    /// As [`SwitchOff::switch_voltage_at`].
+    pub fn loop_voltage_at(&self, i: Amps) -> Result<Volts, Error> {
+        Volts::new(self.law.g(self.check_current(i)?))
+    }
+
+    /// g(i) for any i > 0 (internal: a moving armature's current can rise above the start).
+    pub(crate) fn loop_voltage_raw(&self, i: f32) -> f32 {
+        self.law.g(i)
+    }
+
     /// Voltage across the switch while the coil carries `i` (0 < i ≤ start current).
     ///
     /// # Errors
