@@ -30,6 +30,7 @@
 
 pub mod detect;
 pub mod motion;
+pub mod sizing;
 
 use crate::error::{self, Error, Reason};
 use crate::units::Henries;

@@ -288,10 +288,52 @@ struct Integrator<'a, 's> {
     sys: System<'a>,
     run: Run,
     scale: [f32; 3],
-    samples: &'s mut [f32],
-    written: usize,
+    sink: &'s mut dyn Sink,
     steps: u32,
     impact: f32,
+}
+
+/// Where a run's current goes at chosen instants: each step lands on the sink's next instant.
+pub trait Sink {
+    /// The next instant (s from the run's start) the sink wants the current at; None when it
+    /// wants no more.
+    fn next_due(&self) -> Option<f32>;
+    /// The current at that instant, A.
+    fn put(&mut self, i: f32);
+}
+
+/// A buffer filled at k·Δt, k = 0, 1, … (as many as fit).
+pub struct Samples<'b> {
+    buf: &'b mut [f32],
+    period: f32,
+    written: usize,
+}
+
+impl<'b> Samples<'b> {
+    /// Samples every `period` seconds into `buf`.
+    pub fn new(buf: &'b mut [f32], period: Seconds) -> Self {
+        Samples {
+            buf,
+            period: period.value(),
+            written: 0,
+        }
+    }
+    /// How many were written.
+    pub fn written(&self) -> usize {
+        self.written
+    }
+}
+
+impl Sink for Samples<'_> {
+    fn next_due(&self) -> Option<f32> {
+        (self.written < self.buf.len()).then(|| self.written as f32 * self.period)
+    }
+    fn put(&mut self, i: f32) {
+        if let Some(slot) = self.buf.get_mut(self.written) {
+            *slot = i;
+            self.written += 1;
+        }
+    }
 }
 
 /// The events of a run, in the order seen.
@@ -413,28 +455,22 @@ impl Integrator<'_, '_> {
         best
     }
 
-    /// Writes the sample at time t if t is the next sample instant.
+    /// Hands the current to the sink if t is its next instant.
     fn sample(&mut self, t: f32, y: &State) {
-        let dt = self.run.sample_period.value();
-        if let Some(slot) = self.samples.get_mut(self.written) {
-            let due = self.written as f32 * dt;
-            if (t - due).abs() <= 1e-4 * dt {
-                *slot = self.sys.current(y);
-                self.written += 1;
+        if let Some(due) = self.sink.next_due() {
+            if (t - due).abs() <= 1e-6 * self.run.duration.value().max(due) {
+                self.sink.put(self.sys.current(y));
             }
         }
     }
 
-    /// The next instant a step must land on: the next sample, or the end.
+    /// The next instant a step must land on: the sink's next instant, or the end.
     fn next_stop(&self, t: f32) -> f32 {
         let end = self.run.duration.value();
-        if self.written < self.samples.len() {
-            let due = self.written as f32 * self.run.sample_period.value();
-            if due > t {
-                return due.min(end);
-            }
+        match self.sink.next_due() {
+            Some(due) if due > t => due.min(end),
+            _ => end,
         }
-        end
     }
 
     /// Integrates from (y, c) at t = 0 until the end, or until `stop(y)`; returns the end state,
@@ -607,6 +643,23 @@ pub fn pull_in(
     run: &Run,
     samples: &mut [f32],
 ) -> Result<PullIn, Error> {
+    let mut sink = Samples::new(samples, run.sample_period);
+    let mut p = pull_in_to(arm, r, supply, run, &mut sink)?;
+    p.samples = sink.written();
+    Ok(p)
+}
+
+/// [`pull_in`] with the current going to any [`Sink`] (its `samples` field is 0).
+///
+/// # Errors
+/// As [`pull_in`].
+pub fn pull_in_to(
+    arm: &Armature,
+    r: Ohms,
+    supply: Volts,
+    run: &Run,
+    sink: &mut dyn Sink,
+) -> Result<PullIn, Error> {
     arm.validate()?;
     check_run(run)?;
     let (v, rr) = (
@@ -623,13 +676,12 @@ pub fn pull_in(
         },
         run: *run,
         scale: scales(arm, l0 * i_ref, tau),
-        samples,
-        written: 0,
+        sink,
         steps: 0,
         impact: 0.0,
     };
     let y0: State = [0.0, arm.stroke_m, 0.0, 0.0, 0.0, 0.0, 0.0];
-    let h0 = (tau * 1e-3).min(run.sample_period.value());
+    let h0 = tau * 1e-3;
     let (y, _, _, seen) = it.integrate(y0, Contact::Open, h0, |_, _| false)?;
     let (peak, valley) = first_two(&seen);
     Ok(PullIn {
@@ -639,7 +691,7 @@ pub fn pull_in(
         valley: turn(valley)?,
         end_current: Amps::new(it.sys.current(&y))?,
         end_gap_m: y[1],
-        samples: it.written,
+        samples: 0,
         steps: it.steps,
         energy: it.energy(&y0, &y),
     })
@@ -658,6 +710,22 @@ pub fn release(
     run: &Run,
     samples: &mut [f32],
 ) -> Result<Release, Error> {
+    let mut sink = Samples::new(samples, run.sample_period);
+    let mut p = release_to(arm, off, run, &mut sink)?;
+    p.samples = sink.written();
+    Ok(p)
+}
+
+/// [`release`] with the current going to any [`Sink`] (its `samples` field is 0).
+///
+/// # Errors
+/// As [`pull_in`].
+pub fn release_to(
+    arm: &Armature,
+    off: &SwitchOff,
+    run: &Run,
+    sink: &mut dyn Sink,
+) -> Result<Release, Error> {
     arm.validate()?;
     check_run(run)?;
     let i0 = off.start_current().value();
@@ -671,13 +739,12 @@ pub fn release(
         },
         run: *run,
         scale: scales(arm, l0 * i0, tau),
-        samples,
-        written: 0,
+        sink,
         steps: 0,
         impact: 0.0,
     };
     let y0: State = [l0 * i0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0];
-    let h0 = (tau * 1e-3).min(run.sample_period.value());
+    let h0 = tau * 1e-3;
     let stop_at = 1e-4 * i0;
     let contact = if arm.stroke_m > 0.0 {
         Contact::Seat
@@ -699,7 +766,7 @@ pub fn release(
         end_current: Amps::new(it.sys.current(&y).max(0.0))?,
         end_time: Seconds::new(t_end)?,
         end_gap_m: y[1],
-        samples: it.written,
+        samples: 0,
         steps: it.steps,
         energy: it.energy(&y0, &y),
     })

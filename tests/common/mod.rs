@@ -6,6 +6,7 @@
 //! UC Berkeley ERL-M520, 1975). Also the one strict C compile the generated-header tests share.
 #![allow(dead_code)]
 
+pub mod armature;
 pub mod ode;
 
 /// The decay of a coil from `i0` to zero through a constant clamp voltage `vc` in a loop of

@@ -1,0 +1,240 @@
+//! Did the armature move? The configuration step's detectability claim and the run-time
+//! detector, tested the way they are used: six invented designs, their tolerances (mechanics
+//! ±10 %, inductances ±5 %, supply ±10 %, the coil from −7 % cold to +7 % and 15 % hot), an ADC
+//! at 10 kHz and at 2 kHz (12 bits, 80 % of full scale at the largest current, ±4 counts of
+//! noise), waveforms from the independent reference (Dormand–Prince, f64; tests/common) at
+//! random points of the box and random sampling phase, quantised, with Gaussian noise (σ a
+//! third of the bound, clipped to it). Moving and stuck (the armature held open: the plain rise
+//! with L_open).
+//!
+//! Counted per design and rate: false "moved" on a stuck armature (target 0 everywhere),
+//! missed motion where the step calls it detectable (target 0), and random interior points
+//! whose dip, seating or motion start beat the vertex search (Monte Carlo against the corners:
+//! target 0). The table prints with
+//! `cargo test --release --test armature_detect -- --nocapture`.
+
+mod common;
+
+use common::armature::{perturbed, pull_in_waveform, specs, Spec};
+use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
+use kickguard::armature::motion::pull_in;
+use kickguard::armature::sizing::{
+    confirm_amps, detector_for, pull_in_window, run_for, Adc, DriveRange, Tolerances,
+};
+use kickguard::{Hertz, Ohms, Seconds, Volts};
+
+const MECH: f64 = 0.1;
+const INDUCT: f64 = 0.05;
+const NOISE: u16 = 4;
+const POINTS: usize = 24;
+
+fn tolerances() -> Tolerances {
+    let (m, l) = (MECH as f32, INDUCT as f32);
+    Tolerances {
+        mass: m,
+        stroke: m,
+        preload: m,
+        spring: m,
+        load: m,
+        damping: m,
+        l_seat: l,
+        l_open: l,
+        g0: m,
+    }
+}
+
+fn supply(s: &Spec) -> (f64, f64) {
+    (0.9 * s.v, 1.1 * s.v)
+}
+
+fn resistance(s: &Spec) -> (f64, f64) {
+    (0.93 * s.r, 1.07 * 1.15 * s.r)
+}
+
+fn drive(s: &Spec) -> DriveRange {
+    let (v, r) = (supply(s), resistance(s));
+    DriveRange {
+        supply_min: Volts::new(v.0 as f32).unwrap(),
+        supply_max: Volts::new(v.1 as f32).unwrap(),
+        resistance_min: Ohms::new(r.0 as f32).unwrap(),
+        resistance_max: Ohms::new(r.1 as f32).unwrap(),
+    }
+}
+
+fn adc(s: &Spec, rate: f64) -> Adc {
+    let i_max = supply(s).1 / resistance(s).0;
+    Adc {
+        rate: Hertz::new(rate as f32).unwrap(),
+        counts_per_amp: (0.8 * 4096.0 / i_max) as f32,
+        full_scale: 4096,
+        noise_counts: NOISE,
+    }
+}
+
+/// SplitMix64 (Steele, Lea & Flood 2014) and a Box–Muller normal.
+struct Rng(u64);
+impl Rng {
+    fn unit(&mut self) -> f64 {
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
+    }
+    fn normal(&mut self) -> f64 {
+        let (a, b) = (self.unit().max(1e-300), self.unit());
+        (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
+    }
+}
+
+/// The ADC's counts of a waveform: rounded, with clipped Gaussian noise.
+fn counts(wave: &[f64], a: &Adc, rng: &mut Rng) -> Vec<u16> {
+    let bound = f64::from(a.noise_counts);
+    wave.iter()
+        .map(|i| {
+            let n = (rng.normal() * bound / 3.0).clamp(-bound, bound);
+            (i * a.counts_per_amp as f64 + n)
+                .round()
+                .clamp(0.0, 65535.0) as u16
+        })
+        .collect()
+}
+
+fn verdict(cfg: DipConfig, samples: &[u16]) -> Motion {
+    let mut d = DipDetector::new(cfg);
+    d.push_slice(samples).unwrap_or_else(|| d.finish())
+}
+
+#[derive(Default, Debug)]
+struct Tally {
+    moving: u32,
+    stuck: u32,
+    false_moved: u32,
+    misses: u32,
+    beaten: u32,
+}
+
+/// The run's length: long enough for the slowest corner (low supply, hot coil) to seat.
+fn duration(s: &Spec) -> f64 {
+    60.0 * s.ls / resistance(s).0
+}
+
+#[test]
+fn detector_never_calls_a_stuck_armature_moved_and_never_misses_where_detectable() {
+    let mut all = Tally::default();
+    println!(
+        "{:<22} {:>6} {:>12} {:>11} {:>8} {:>7} {:>6} {:>6} {:>6}",
+        "design", "rate", "verdict", "dip min", "window", "moving", "false", "miss", "beaten"
+    );
+    for (k, s) in specs().iter().enumerate() {
+        for rate in [10_000.0, 2_000.0] {
+            let a = adc(s, rate);
+            let run = run_for(&a, Seconds::new(duration(s) as f32).unwrap()).unwrap();
+            let w = pull_in_window(
+                &s.armature(),
+                &tolerances(),
+                &drive(s),
+                &run,
+                confirm_amps(&a).unwrap(),
+            )
+            .unwrap();
+            let det = detector_for(&w, &a).unwrap();
+            if let Some(c) = w.not_seated {
+                println!(
+                    "  {}: corner {c:011b} (bit 0 mass … 8 g0, 9 supply, 10 R) does not seat",
+                    s.name
+                );
+            }
+            // Without a claim, the detector still runs with the same noise-derived hysteresis
+            // (false "moved" is counted everywhere).
+            let hyst = 2 * (NOISE + 1) + 1;
+            let cfg = det.unwrap_or(DipConfig {
+                polarity: Polarity::Rising,
+                rise: hyst,
+                hysteresis: hyst,
+                min_dip: hyst,
+                window: (duration(s) * rate) as u32,
+                full_scale: 4096,
+            });
+            let t_end = f64::from(cfg.window) / rate;
+            let mut rng = Rng(0xA3A7 + 31 * k as u64 + rate as u64);
+            let mut t = Tally::default();
+            for _ in 0..POINTS {
+                let mut u = [0.0f64; 11];
+                for x in u.iter_mut() {
+                    *x = rng.unit();
+                }
+                let p = perturbed(s, MECH, INDUCT, supply(s), resistance(s), &u);
+                let phase = rng.unit();
+                let moving = pull_in_waveform(&p, t_end, 1.0 / rate, phase, false);
+                let stuck = pull_in_waveform(&p, t_end, 1.0 / rate, phase, true);
+                let (vm, vs) = (
+                    verdict(cfg, &counts(&moving, &a, &mut rng)),
+                    verdict(cfg, &counts(&stuck, &a, &mut rng)),
+                );
+                t.moving += 1;
+                t.stuck += 1;
+                if matches!(vs, Motion::Moved { .. }) {
+                    t.false_moved += 1;
+                }
+                if det.is_ok() && !matches!(vm, Motion::Moved { .. }) {
+                    t.misses += 1;
+                    println!("  miss: {vm:?} at {p:?}");
+                }
+                // Monte Carlo against the vertices, by the library's own model at the point.
+                let lib = pull_in(
+                    &p.armature(),
+                    Ohms::new(p.r as f32).unwrap(),
+                    Volts::new(p.v as f32).unwrap(),
+                    &run,
+                    &mut [],
+                )
+                .unwrap();
+                // (Only where every corner seats: the windows span the seated corners.)
+                if w.not_seated.is_some() {
+                    continue;
+                }
+                if let (Some(ts), Some(ms)) = (lib.seated, lib.motion_start) {
+                    let (ts, ms) = (ts.value(), ms.value());
+                    let out =
+                        |x: f32, lo: f32, hi: f32| x < lo * (1.0 - 1e-4) || x > hi * (1.0 + 1e-4);
+                    if out(ts, w.seated.lo, w.seated.hi)
+                        || out(ms, w.motion_start.lo, w.motion_start.hi)
+                        || out(lib.dip(), w.dip.lo, w.dip.hi)
+                    {
+                        t.beaten += 1;
+                        println!("  beaten: {lib:?} by {p:?} (window {w:?})");
+                    }
+                } else {
+                    t.beaten += 1;
+                    println!("  a point that does not seat where every corner does: {p:?}");
+                }
+            }
+            println!(
+                "{:<22} {:>6} {:>12} {:>8.1} mA {:>8} {:>7} {:>6} {:>6} {:>6}",
+                s.name,
+                rate,
+                match det {
+                    Ok(_) => "detectable".to_string(),
+                    Err(e) => format!("{e:?}"),
+                },
+                w.sampled_dip_min * 1e3,
+                cfg.window,
+                t.moving,
+                t.false_moved,
+                t.misses,
+                t.beaten
+            );
+            all.moving += t.moving;
+            all.stuck += t.stuck;
+            all.false_moved += t.false_moved;
+            all.misses += t.misses;
+            all.beaten += t.beaten;
+        }
+    }
+    println!("all: {all:?}");
+    assert_eq!(all.false_moved, 0, "{all:?}");
+    assert_eq!(all.misses, 0, "{all:?}");
+    assert_eq!(all.beaten, 0, "{all:?}");
+    assert!(all.moving >= 200);
+}
