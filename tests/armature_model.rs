@@ -23,7 +23,6 @@ use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
 use kickguard::diode::{Diode, DiodeParams};
 use kickguard::{Amps, Henries, Ohms, Seconds, Temperature, Volts};
-use ode_solvers::{Dopri5, SVector, System};
 
 fn run(duration: f64, tol: f32) -> Run {
     Run {

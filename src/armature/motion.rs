@@ -326,7 +326,7 @@ impl<'b> Samples<'b> {
 
 impl Sink for Samples<'_> {
     fn next_due(&self) -> Option<f32> {
-        (self.written < self.buf.len()).then(|| self.written as f32 * self.period)
+        (self.written < self.buf.len()).then_some(self.written as f32 * self.period)
     }
     fn put(&mut self, i: f32) {
         if let Some(slot) = self.buf.get_mut(self.written) {
