@@ -238,3 +238,57 @@ fn detector_never_calls_a_stuck_armature_moved_and_never_misses_where_detectable
     assert_eq!(all.beaten, 0, "{all:?}");
     assert!(all.moving >= 200);
 }
+
+/// Each verdict of the detector on hand-made sequences (counts), and the release mirror.
+#[test]
+fn detector_verdicts_by_hand() {
+    let cfg = DipConfig {
+        polarity: Polarity::Rising,
+        rise: 11,
+        hysteresis: 11,
+        min_dip: 20,
+        window: 12,
+        full_scale: 4096,
+    };
+    // Rise to 1000, fall to 900 (peak confirmed 11 below), bottom 880 at sample 5, climb 12.
+    let moved = [0, 400, 800, 1000, 900, 880, 892];
+    assert_eq!(verdict(cfg, &moved), Motion::Moved { at: 5, dip: 120 });
+    // A plain rise through the window.
+    let plain: Vec<u16> = (0..12).map(|k| 100 * k).collect();
+    assert_eq!(verdict(cfg, &plain), Motion::NotMoved);
+    // A rise with ±5 counts of noise (2n + 1 = 11 = hysteresis): never a confirmed peak.
+    let noisy: Vec<u16> = (0..12)
+        .map(|k| 1000 + 3 * k + if k % 2 == 0 { 5 } else { 0 })
+        .collect();
+    assert_eq!(verdict(cfg, &noisy), Motion::NotMoved);
+    // No drive: the signal never moves `rise` counts.
+    assert_eq!(
+        verdict(cfg, &[7; 12]),
+        Motion::Unclear(kickguard::armature::detect::Unclear::NoRise)
+    );
+    // Saturation, too few samples, wiggles below min_dip, a contradictory configuration.
+    use kickguard::armature::detect::Unclear;
+    assert_eq!(
+        verdict(cfg, &[0, 2000, 4096]),
+        Motion::Unclear(Unclear::Saturated)
+    );
+    assert_eq!(
+        verdict(cfg, &[0, 100, 200]),
+        Motion::Unclear(Unclear::TooFewSamples)
+    );
+    let wiggle = [0, 500, 485, 497, 486, 498, 487, 499, 488, 500];
+    assert_eq!(verdict(cfg, &wiggle), Motion::Unclear(Unclear::Noisy));
+    let bad = DipConfig { min_dip: 5, ..cfg };
+    assert_eq!(verdict(bad, &moved), Motion::Unclear(Unclear::BadConfig));
+    // Release: a fall with a bump (valley 300, top 420) is motion; a plain fall is not.
+    let rel = DipConfig {
+        polarity: Polarity::Falling,
+        ..cfg
+    };
+    assert_eq!(
+        verdict(rel, &[2000, 1500, 1000, 600, 300, 420, 405, 380]),
+        Motion::Moved { at: 5, dip: 120 }
+    );
+    let fall: Vec<u16> = (0..12).map(|k| 2000 - 150 * k).collect();
+    assert_eq!(verdict(rel, &fall), Motion::NotMoved);
+}

@@ -327,3 +327,163 @@ fn release_matches_the_independent_integration() {
         );
     }
 }
+
+/// Bad input keeps the contract: every field refused by name, no NaN in an Ok, bounded work.
+#[test]
+fn hostile_input_is_refused_by_name() {
+    let s = specs()[0];
+    let good = s.armature();
+    let r = Ohms::new(56.0).unwrap();
+    let v = Volts::new(24.0).unwrap();
+    let ok_run = run(0.05, 1e-5);
+    let cases: Vec<(&str, Armature)> = vec![
+        (
+            "mass",
+            Armature {
+                mass_kg: f32::NAN,
+                ..good
+            },
+        ),
+        (
+            "mass",
+            Armature {
+                mass_kg: 0.0,
+                ..good
+            },
+        ),
+        (
+            "stroke",
+            Armature {
+                stroke_m: -1e-3,
+                ..good
+            },
+        ),
+        (
+            "stroke",
+            Armature {
+                stroke_m: 2.0,
+                ..good
+            },
+        ),
+        (
+            "spring preload",
+            Armature {
+                preload_n: -1.0,
+                ..good
+            },
+        ),
+        (
+            "spring rate",
+            Armature {
+                spring_n_per_m: f32::INFINITY,
+                ..good
+            },
+        ),
+        (
+            "load force",
+            Armature {
+                load_n: f32::NAN,
+                ..good
+            },
+        ),
+        (
+            "damping",
+            Armature {
+                damping_n_s_per_m: -0.1,
+                ..good
+            },
+        ),
+        (
+            "g0",
+            Armature {
+                inductance: GapInductance {
+                    g0_m: 0.0,
+                    ..good.inductance
+                },
+                ..good
+            },
+        ),
+        (
+            "open inductance",
+            Armature {
+                inductance: GapInductance {
+                    open: Henries::new(0.5).unwrap(),
+                    ..good.inductance
+                },
+                ..good
+            },
+        ),
+    ];
+    for (name, a) in cases {
+        let e = pull_in(&a, r, v, &ok_run, &mut []).unwrap_err();
+        assert_eq!(e.input, name, "{a:?}");
+    }
+    // (A zero or negative duration or period cannot be built: `Seconds` refuses it.)
+    for (name, bad) in [
+        (
+            "tolerance",
+            Run {
+                tolerance: 0.5,
+                ..ok_run
+            },
+        ),
+        (
+            "tolerance",
+            Run {
+                tolerance: f32::NAN,
+                ..ok_run
+            },
+        ),
+    ] {
+        assert_eq!(pull_in(&good, r, v, &bad, &mut []).unwrap_err().input, name);
+    }
+    // A run far longer than the step budget allows is refused, not looped on: a 100 s run
+    // sampled every microsecond would need 10⁸ landings.
+    let long = Run {
+        duration: Seconds::new(100.0).unwrap(),
+        sample_period: Seconds::new(1e-6).unwrap(),
+        tolerance: 1e-5,
+    };
+    let mut buf = vec![0f32; 1_000_000];
+    assert_eq!(
+        pull_in(&good, r, v, &long, &mut buf).unwrap_err().input,
+        "integration steps"
+    );
+    // Extreme but valid armatures give finite results.
+    for a in [
+        Armature {
+            mass_kg: 1e-9,
+            ..good
+        },
+        Armature {
+            mass_kg: 1e9,
+            ..good
+        },
+        Armature {
+            damping_n_s_per_m: 1e6,
+            ..good
+        },
+        Armature {
+            preload_n: 1e6,
+            ..good
+        },
+        Armature {
+            load_n: -10.0,
+            ..good
+        },
+    ] {
+        match pull_in(&a, r, v, &ok_run, &mut []) {
+            Ok(p) => {
+                assert!(
+                    p.end_current.value().is_finite() && p.end_gap_m.is_finite(),
+                    "{a:?}"
+                );
+                assert!(
+                    p.energy.source.is_finite() && p.energy.impact.is_finite(),
+                    "{a:?}"
+                );
+            }
+            Err(e) => assert_eq!(e.input, "integration steps", "{a:?}"),
+        }
+    }
+}

@@ -27,7 +27,7 @@
 //! smallest sampled dip over the tolerances less 2n: then a moving armature is always seen
 //! (if the climb after the valley also exceeds `hysteresis` + 2n within the window).
 //!
-//! Work: constant per sample (a handful of comparisons); memory: this struct (24 bytes).
+//! Work: constant per sample (a dozen comparisons); memory: this struct (36 bytes).
 
 /// Sub-threshold wiggles (a confirmed peak and valley with a dip below `min_dip`) tolerated
 /// before the signal is called too noisy.
@@ -96,14 +96,6 @@ pub enum Motion {
     Unclear(Unclear),
 }
 
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-#[cfg_attr(feature = "defmt", derive(defmt::Format))]
-enum Phase {
-    Rising,
-    Falling,
-    Done(Motion),
-}
-
 /// The detector: feed samples, read the verdict.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -115,7 +107,8 @@ pub struct DipDetector {
     bottom: u16,
     bottom_at: u32,
     wiggles: u8,
-    phase: Phase,
+    falling: bool,
+    verdict: Option<Motion>,
 }
 
 impl DipDetector {
@@ -131,10 +124,11 @@ impl DipDetector {
             bottom: 0,
             bottom_at: 0,
             wiggles: 0,
-            phase: if bad {
-                Phase::Done(Motion::Unclear(Unclear::BadConfig))
+            falling: false,
+            verdict: if bad {
+                Some(Motion::Unclear(Unclear::BadConfig))
             } else {
-                Phase::Rising
+                None
             },
         }
     }
@@ -146,67 +140,62 @@ impl DipDetector {
 
     /// The verdict, once given.
     pub fn verdict(&self) -> Option<Motion> {
-        match self.phase {
-            Phase::Done(m) => Some(m),
-            _ => None,
-        }
+        self.verdict
     }
 
     /// Takes one sample (counts); returns the verdict once it is known (and keeps returning
-    /// it). Work: constant.
+    /// it). Work: constant (a dozen comparisons).
     pub fn push(&mut self, raw: u16) -> Option<Motion> {
-        if let Phase::Done(m) = self.phase {
-            return Some(m);
+        if self.verdict.is_some() {
+            return self.verdict;
         }
-        if raw >= self.cfg.full_scale {
+        let cfg = self.cfg;
+        if raw >= cfg.full_scale {
             return self.done(Motion::Unclear(Unclear::Saturated));
         }
-        // Mirrored for a release: the falling signal rises, its bump becomes a dip.
-        let x = match self.cfg.polarity {
+        // Mirrored for a release: the falling signal rises, its bump becomes a dip
+        // (raw < full scale here: no wrap).
+        let x = match cfg.polarity {
             Polarity::Rising => raw,
-            Polarity::Falling => self.cfg.full_scale - raw,
+            Polarity::Falling => cfg.full_scale.saturating_sub(raw),
         };
         let k = self.n;
-        self.n = self.n.saturating_add(1);
+        self.n = k.saturating_add(1);
         if k == 0 {
             self.first = x;
             self.top = x;
         }
-        let risen = self.top.saturating_sub(self.first) >= self.cfg.rise;
-        match self.phase {
-            Phase::Rising => {
-                if x > self.top {
-                    self.top = x;
-                } else if risen && self.top - x >= self.cfg.hysteresis {
-                    self.phase = Phase::Falling;
-                    self.bottom = x;
-                    self.bottom_at = k;
+        if self.falling {
+            if x < self.bottom {
+                self.bottom = x;
+                self.bottom_at = k;
+            } else if x.saturating_sub(self.bottom) >= cfg.hysteresis {
+                // bottom ≤ top (it started below it and only fell): no saturation.
+                let dip = self.top.saturating_sub(self.bottom);
+                if dip >= cfg.min_dip {
+                    return self.done(Motion::Moved {
+                        at: self.bottom_at,
+                        dip,
+                    });
                 }
-            }
-            Phase::Falling => {
-                if x < self.bottom {
-                    self.bottom = x;
-                    self.bottom_at = k;
-                } else if x - self.bottom >= self.cfg.hysteresis {
-                    let dip = self.top - self.bottom;
-                    if dip >= self.cfg.min_dip {
-                        return self.done(Motion::Moved {
-                            at: self.bottom_at,
-                            dip,
-                        });
-                    }
-                    self.wiggles = self.wiggles.saturating_add(1);
-                    if self.wiggles > MAX_WIGGLES {
-                        return self.done(Motion::Unclear(Unclear::Noisy));
-                    }
-                    self.phase = Phase::Rising;
-                    self.top = self.top.max(x);
+                self.wiggles = self.wiggles.saturating_add(1);
+                if self.wiggles > MAX_WIGGLES {
+                    return self.done(Motion::Unclear(Unclear::Noisy));
                 }
+                self.falling = false;
+                self.top = self.top.max(x);
             }
-            Phase::Done(m) => return Some(m),
+        } else if x > self.top {
+            self.top = x;
+        } else if self.top.saturating_sub(x) >= cfg.hysteresis
+            && self.top.saturating_sub(self.first) >= cfg.rise
+        {
+            self.falling = true;
+            self.bottom = x;
+            self.bottom_at = k;
         }
-        if self.n >= self.cfg.window {
-            let risen = self.top.saturating_sub(self.first) >= self.cfg.rise;
+        if self.n >= cfg.window {
+            let risen = self.top.saturating_sub(self.first) >= cfg.rise;
             return self.done(if risen {
                 Motion::NotMoved
             } else {
@@ -230,17 +219,15 @@ impl DipDetector {
     /// The samples have ended: the verdict, or [`Unclear::TooFewSamples`] if the window was not
     /// reached.
     pub fn finish(&mut self) -> Motion {
-        match self.phase {
-            Phase::Done(m) => m,
-            _ => {
-                self.phase = Phase::Done(Motion::Unclear(Unclear::TooFewSamples));
-                Motion::Unclear(Unclear::TooFewSamples)
-            }
-        }
+        let m = self
+            .verdict
+            .unwrap_or(Motion::Unclear(Unclear::TooFewSamples));
+        self.verdict = Some(m);
+        m
     }
 
     fn done(&mut self, m: Motion) -> Option<Motion> {
-        self.phase = Phase::Done(m);
-        Some(m)
+        self.verdict = Some(m);
+        self.verdict
     }
 }

@@ -70,6 +70,12 @@ pub struct Armature {
 /// The largest stroke and fringing length the model takes, m (1 m: far beyond any coil).
 pub const MAX_LENGTH_M: f32 = 1.0;
 
+/// x limited to 0 … s (`f32::clamp` would carry a panic path for an unchecked s; a NaN reads
+/// as 0).
+fn gap(x: f32, s: f32) -> f32 {
+    x.min(s).max(0.0)
+}
+
 impl Armature {
     /// Checks every field.
     ///
@@ -106,7 +112,7 @@ impl Armature {
 
     /// L(x), H, for a gap x in 0 … s (clipped to it).
     pub fn inductance_at(&self, x_m: f32) -> f32 {
-        let x = x_m.clamp(0.0, self.stroke_m);
+        let x = gap(x_m, self.stroke_m);
         let l_inf = self.l_inf();
         let g0 = self.inductance.g0_m;
         l_inf + (self.inductance.seat.value() - l_inf) * g0 / (g0 + x)
@@ -114,7 +120,7 @@ impl Armature {
 
     /// |dL/dx|, H/m, at a gap x in 0 … s (clipped to it).
     pub fn inductance_slope_at(&self, x_m: f32) -> f32 {
-        let x = x_m.clamp(0.0, self.stroke_m);
+        let x = gap(x_m, self.stroke_m);
         let g0 = self.inductance.g0_m;
         (self.inductance.seat.value() - self.l_inf()) * g0 / ((g0 + x) * (g0 + x))
     }
@@ -127,7 +133,7 @@ impl Armature {
 
     /// The forces pushing open at gap x, N: spring F₀ + k·(s − x) plus the load.
     pub fn opening_force(&self, x_m: f32) -> f32 {
-        let x = x_m.clamp(0.0, self.stroke_m);
+        let x = gap(x_m, self.stroke_m);
         self.preload_n + self.spring_n_per_m * (self.stroke_m - x) + self.load_n
     }
 

@@ -331,7 +331,7 @@ impl Sink for Samples<'_> {
     fn put(&mut self, i: f32) {
         if let Some(slot) = self.buf.get_mut(self.written) {
             *slot = i;
-            self.written += 1;
+            self.written = self.written.saturating_add(1);
         }
     }
 }
@@ -494,7 +494,7 @@ impl Integrator<'_, '_> {
                     Reason::OutsideValidatedRange,
                 ));
             }
-            self.steps += 1;
+            self.steps = self.steps.saturating_add(1);
             let target = self.next_stop(t);
             let mut hs = h.min(target - t);
             let landing = hs >= target - t;
@@ -505,7 +505,10 @@ impl Integrator<'_, '_> {
             let n = self.norm(&y, &y1, &err);
             if !(n <= 1.0) {
                 // Rejected: shrink (factor 0.2 … 0.9).
-                h = hs * (0.9 * libm::powf(n.max(1e-10), -1.0 / 3.0)).clamp(0.2, 0.9);
+                h = hs
+                    * (0.9 * libm::powf(n.max(1e-10), -1.0 / 3.0))
+                        .max(0.2)
+                        .min(0.9);
                 if !(h > 1e-12 * end.max(1e-9)) {
                     return Err(Error::new(
                         "integration steps",
@@ -515,7 +518,7 @@ impl Integrator<'_, '_> {
                 continue;
             }
             let grow = if n > 0.0 {
-                (0.9 * libm::powf(n, -1.0 / 3.0)).clamp(0.2, 5.0)
+                (0.9 * libm::powf(n, -1.0 / 3.0)).max(0.2).min(5.0)
             } else {
                 5.0
             };
@@ -578,7 +581,7 @@ impl Integrator<'_, '_> {
     fn turn(&self, t: f32, y: &State, seen: &mut Seen) {
         if let Some(slot) = seen.turns.get_mut(seen.n_turns) {
             *slot = Some((t, self.sys.current(y)));
-            seen.n_turns += 1;
+            seen.n_turns = seen.n_turns.saturating_add(1);
         }
     }
 

@@ -149,7 +149,7 @@ impl Sink for Probes {
         if let Some(g) = self.got.get_mut(self.n) {
             *g = i;
         }
-        self.n += 1;
+        self.n = self.n.saturating_add(1);
     }
 }
 
@@ -251,7 +251,7 @@ pub fn pull_in_window(
             drive.resistance_max
         };
         let p = pull_in_to(&a, r, v, run, &mut Nothing)?;
-        w.corners += 1;
+        w.corners = w.corners.saturating_add(1);
         let i_final = v.value() / r.value();
         w.current_max = w.current_max.max(i_final).max(peak_of(&p));
         if let Some(t) = p.motion_start {
@@ -337,7 +337,7 @@ pub fn detector_for(
 ) -> Result<Result<DipConfig, NotDetectable>, Error> {
     let cpa = error::positive("counts per amp", adc.counts_per_amp)?;
     let n_e = u32::from(adc.noise_counts) + 1;
-    let hyst = 2 * n_e + 1;
+    let hyst = n_e.saturating_mul(2).saturating_add(1);
     if w.not_seated.is_some() {
         return Ok(Err(NotDetectable::DoesNotPullIn));
     }

@@ -18,12 +18,16 @@
 //!   the `Learner<16>` the probe holds;
 //! - unit learner: one reading while learning (the 7th of 8, difference of two probes) / one
 //!   judged reading once learned (learning and judging both narrow every segment: the same
-//!   work, first cell / last cell of a 4 × 6 table); the stack includes the `UnitLearner<8>`.
+//!   work, first cell / last cell of a 4 × 6 table); the stack includes the `UnitLearner<8>`;
+//! - armature dip detector: one sample while the current rises (the 21st of a synthetic
+//!   pull-in, difference of two probes) / the sample that confirms the motion (the valley's
+//!   climb), each one `DipDetector::push`.
 #![no_std]
 #![no_main]
 
 use core::hint::black_box as bb;
 use cortex_m_rt::entry;
+use kickguard::armature::detect::{DipConfig, DipDetector, Polarity};
 use kickguard::clamp::closed_form::ConstantClamp;
 use kickguard::coil::Coil;
 use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
@@ -267,6 +271,43 @@ probe!(
     probe_unit_resume,
     UnitLearner::<8>::resume(&UNIT, bb(&[0u8; kickguard::diagnosis::unit::STATE_BYTES])).is_ok()
 );
+/// A synthetic pull-in in counts: a rise to 2000, a dip to 1500 at sample 60, the climb on.
+static PULL_IN: [u16; 96] = {
+    let mut s = [0u16; 96];
+    let mut k = 0;
+    while k < 96 {
+        s[k] = if k < 40 {
+            (k * 50) as u16
+        } else if k < 60 {
+            (2000 - (k - 40) * 25) as u16
+        } else {
+            (1500 + (k - 60) * 20) as u16
+        };
+        k += 1;
+    }
+    s
+};
+const DIP: DipConfig = DipConfig {
+    polarity: Polarity::Rising,
+    rise: 11,
+    hysteresis: 11,
+    min_dip: 11,
+    window: 1000,
+    full_scale: 4096,
+};
+/// A detector fed the first `n` samples; the last one's answer.
+fn dip(n: u32) -> Option<kickguard::armature::detect::Motion> {
+    let mut d = DipDetector::new(bb(DIP));
+    let mut last = None;
+    for s in PULL_IN.iter().take(bb(n) as usize) {
+        last = d.push(bb(*s));
+    }
+    last
+}
+probe!(probe_dip_20, dip(20));
+probe!(probe_dip_21, dip(21));
+probe!(probe_dip_60, dip(60));
+probe!(probe_dip_61, dip(61));
 #[cfg(feature = "micromath")]
 probe!(
     probe_fast_drop_typical,
@@ -329,6 +370,10 @@ static PROBES: &[extern "C" fn() -> u32] = &[
     probe_unit_8,
     probe_unit_9,
     probe_unit_resume,
+    probe_dip_20,
+    probe_dip_21,
+    probe_dip_60,
+    probe_dip_61,
     #[cfg(feature = "micromath")]
     probe_fast_drop_typical,
     #[cfg(feature = "micromath")]

@@ -562,6 +562,101 @@ fn unit_learner(
     Ok(())
 }
 
+/// The armature: the model's pull-in and release, the sizing's helpers, the detector.
+fn armature() -> Result<(), Error> {
+    use kickguard::armature::detect::{DipConfig, DipDetector, Polarity};
+    use kickguard::armature::motion::{pull_in, release, Run};
+    use kickguard::armature::sizing::{
+        confirm_amps, detector_for, pull_in_window, run_for, Adc, DriveRange, Tolerances,
+    };
+    use kickguard::armature::{Armature, GapInductance};
+    let arm = Armature {
+        mass_kg: bb(0.01),
+        stroke_m: bb(1.5e-3),
+        preload_n: bb(0.3),
+        spring_n_per_m: bb(500.0),
+        load_n: bb(0.2),
+        damping_n_s_per_m: bb(2.0),
+        inductance: GapInductance {
+            seat: Henries::new(bb(0.35))?,
+            open: Henries::new(bb(0.2))?,
+            g0_m: bb(0.5e-3),
+        },
+    };
+    bb((
+        arm.magnetic_force(bb(0.3), bb(1e-3)),
+        arm.balance_current(bb(0.0)),
+    ));
+    let run = Run {
+        duration: Seconds::new(bb(0.05))?,
+        sample_period: Seconds::new(bb(1e-4))?,
+        tolerance: bb(1e-5),
+    };
+    let mut buf = [0f32; 16];
+    let p = pull_in(
+        &arm,
+        Ohms::new(bb(56.0))?,
+        Volts::new(bb(24.0))?,
+        &run,
+        &mut buf,
+    )?;
+    bb((p.dip(), p.seated, p.energy));
+    let t = Temperature::from_celsius(bb(25.0))?;
+    let coil = Coil::fixed(Henries::new(bb(0.35))?, Ohms::new(bb(56.0))?)?;
+    let op = Operating::uniform(Volts::new(bb(24.0))?, Amps::new(bb(0.43))?, t);
+    let off = SwitchOff::new(
+        &coil,
+        &Clamp::FreewheelDiode(Diode::Law(DiodeParams::SILICON)),
+        Side::Low,
+        &op,
+    )?;
+    let r = release(&arm, &off, &run, &mut buf)?;
+    bb((r.bump_height(), r.opened));
+    let adc = Adc {
+        rate: Hertz::new(bb(10_000.0))?,
+        counts_per_amp: bb(4000.0),
+        full_scale: bb(4096),
+        noise_counts: bb(4),
+    };
+    let tol = Tolerances {
+        mass: bb(0.1),
+        ..Tolerances::default()
+    };
+    let drive = DriveRange {
+        supply_min: Volts::new(bb(21.6))?,
+        supply_max: Volts::new(bb(26.4))?,
+        resistance_min: Ohms::new(bb(52.0))?,
+        resistance_max: Ohms::new(bb(70.0))?,
+    };
+    if bb(false) {
+        // Configuration time (2 × 2048 integrations): linked, not run on the target.
+        let w = pull_in_window(
+            &arm,
+            &tol,
+            &drive,
+            &run_for(&adc, Seconds::new(bb(0.2))?)?,
+            confirm_amps(&adc)?,
+        )?;
+        bb(detector_for(&w, &adc)?.is_ok());
+    }
+    let mut d = DipDetector::new(DipConfig {
+        polarity: if bb(true) {
+            Polarity::Rising
+        } else {
+            Polarity::Falling
+        },
+        rise: bb(11),
+        hysteresis: bb(11),
+        min_dip: bb(11),
+        window: bb(100),
+        full_scale: bb(4096),
+    });
+    bb(d.push_slice(bb(&[0u16, 500, 1000, 900, 800, 1200, u16::MAX])));
+    bb((d.finish(), d.verdict()));
+    d.reset();
+    Ok(())
+}
+
 fn diagnosis() -> Result<(), Error> {
     use kickguard::diagnosis::classify::{BandedWindows, Entry, Windows, MAX_WINDOWS};
     use kickguard::diagnosis::compensate::MeasuredAccuracy;
@@ -771,6 +866,7 @@ fn hal_routines() {
 #[entry]
 fn main() -> ! {
     let _ = bb(diagnosis());
+    let _ = bb(armature());
     let _ = bb(input_protection());
     let _ = bb(timing_and_pwm());
     #[cfg(feature = "micromath")]

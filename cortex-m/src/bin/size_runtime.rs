@@ -22,6 +22,7 @@ use kickguard::diode::DiodeParams;
 use kickguard::rating::ThermalPath;
 use kickguard::{Amps, Error, Henries, Ohms, Temperature, Volts, Watts};
 
+use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
 use kickguard::diagnosis::classify::{Entry, Windows, MAX_WINDOWS};
 use kickguard::diagnosis::compensate::{CompensatedWindows, ResistanceLimit};
 use kickguard::diagnosis::fit::fit_decay;
@@ -143,6 +144,20 @@ fn run() -> Result<f32, Error> {
     }
     if let Some(b) = u.state_bytes() {
         acc += UnitLearner::<8>::resume(unit, &b).is_ok() as u32 as f32;
+    }
+    // The armature's dip detector, fed a DMA half-buffer.
+    let mut d = DipDetector::new(bb(DipConfig {
+        polarity: Polarity::Rising,
+        rise: 11,
+        hysteresis: 11,
+        min_dip: 11,
+        window: 1000,
+        full_scale: 4096,
+    }));
+    if let Some(Motion::Moved { dip, .. }) =
+        d.push_slice(bb(&[0u16, 900, 1800, 1500, 1300, 1700, 2000]))
+    {
+        acc += f32::from(dip);
     }
     Ok(acc)
 }
