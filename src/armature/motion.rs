@@ -505,10 +505,7 @@ impl Integrator<'_, '_> {
             let n = self.norm(&y, &y1, &err);
             if !(n <= 1.0) {
                 // Rejected: shrink (factor 0.2 … 0.9).
-                h = hs
-                    * (0.9 * libm::powf(n.max(1e-10), -1.0 / 3.0))
-                        .max(0.2)
-                        .min(0.9);
+                h = hs * (0.9 * libm::powf(n.max(1e-10), -1.0 / 3.0)).clamp(0.2, 0.9);
                 if !(h > 1e-12 * end.max(1e-9)) {
                     return Err(Error::new(
                         "integration steps",
@@ -518,7 +515,7 @@ impl Integrator<'_, '_> {
                 continue;
             }
             let grow = if n > 0.0 {
-                (0.9 * libm::powf(n, -1.0 / 3.0)).max(0.2).min(5.0)
+                (0.9 * libm::powf(n, -1.0 / 3.0)).clamp(0.2, 5.0)
             } else {
                 5.0
             };
