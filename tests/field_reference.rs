@@ -8,7 +8,9 @@
 //! After an intended change: `KICKGUARD_BLESS=1 cargo test --features host --test
 //! field_reference` rewrites the document; review the diff.
 
-use kickguard::host::file::{fields, ClampSpec, CoilSpec, DesignFile, DiagnosisSpec, Driver};
+use kickguard::host::file::{
+    fields, ArmatureSpec, ClampSpec, CoilSpec, DesignFile, DiagnosisSpec, Driver,
+};
 use kickguard::host::file::{Environment, EventSpec, HoldSpec, Input, Pins, Supply, SwitchSpec};
 use serde::de::{self, Deserialize, Visitor};
 
@@ -53,7 +55,7 @@ fn reference_fields(section: &str) -> Vec<&'static str> {
 
 #[test]
 fn the_reference_lists_exactly_what_the_parser_accepts() {
-    let tables: [(&str, Vec<&str>); 12] = [
+    let tables: [(&str, Vec<&str>); 13] = [
         ("", schema_fields::<DesignFile>()),
         ("environment", schema_fields::<Environment>()),
         ("supply", schema_fields::<Supply>()),
@@ -64,6 +66,7 @@ fn the_reference_lists_exactly_what_the_parser_accepts() {
         ("driver.clamp", schema_fields::<ClampSpec>()),
         ("driver.hold", schema_fields::<HoldSpec>()),
         ("driver.diagnosis", schema_fields::<DiagnosisSpec>()),
+        ("driver.armature", schema_fields::<ArmatureSpec>()),
         ("pins", schema_fields::<Pins>()),
         ("input", schema_fields::<Input>()),
     ];
@@ -73,7 +76,7 @@ fn the_reference_lists_exactly_what_the_parser_accepts() {
         assert_eq!(&reference_fields(section), schema, "section [{section}]");
         assert!(sections.contains(section), "{section}");
     }
-    assert_eq!(sections.len(), 12, "{sections:?}");
+    assert_eq!(sections.len(), 13, "{sections:?}");
     // The per-kind rule reads every clamp field but `kind` from ClampSpec::present.
     let file = kickguard::host::file::parse_file(&kickguard::host::file::Reader::new(
         &std::fs::read_to_string("examples/greenhouse.toml").unwrap(),

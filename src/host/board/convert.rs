@@ -229,6 +229,7 @@ fn driver(
         switch,
         hold: super::hold::convert(r, &field, d, &clamp)?,
         diagnosis: super::diagnosis::convert(r, &field, d, &clamp, &supply)?,
+        armature: super::armature::convert(r, &field, d, &coil, l_tol)?,
         clamp,
         profile,
         winding_limit,

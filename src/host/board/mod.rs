@@ -5,6 +5,7 @@
 //! Each value remembers the dotted path of the field it came from ([`DriverBoard::field`] plus
 //! a suffix), so a refusal anywhere later is located at that field.
 
+mod armature;
 mod clamp;
 mod convert;
 mod diagnosis;
@@ -110,6 +111,8 @@ pub struct DriverBoard {
     pub hold: Option<HoldBoard>,
     /// Diagnosis, if wanted.
     pub diagnosis: Option<DiagnosisBoard>,
+    /// The moving armature and its ADC, if given.
+    pub armature: Option<ArmatureBoard>,
     /// Its supply's transient events and reverse-polarity protection, if the file gives any.
     pub profile: Option<profile::SupplyProfile>,
     /// The winding's highest allowed temperature, if given.
@@ -310,6 +313,17 @@ impl ClampBoard {
             ClampBoard::Snubber { .. } => "the snubber resistor",
         }
     }
+}
+
+/// The moving armature, its tolerances and the ADC on the coil current.
+#[derive(Debug, Clone, Copy)]
+pub struct ArmatureBoard {
+    /// The nominal armature (L_seat is the coil's inductance).
+    pub nominal: crate::armature::Armature,
+    /// Its tolerances.
+    pub tol: crate::armature::sizing::Tolerances,
+    /// The ADC.
+    pub adc: crate::armature::sizing::Adc,
 }
 
 /// PWM peak-and-hold.

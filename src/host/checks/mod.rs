@@ -7,6 +7,7 @@
 //! monotone in each axis (the directions are argued in [`crate::host::figures`] and in each
 //! check's docs) and is verified by the Monte Carlo comparison of the report.
 
+pub mod armature;
 pub mod diagnosis;
 pub mod energy;
 pub mod hold;
@@ -107,6 +108,7 @@ pub fn driver_checks(
     let proposal = propose::checks(board, run, &mut out)?;
     open_clamp::require_detection(run, proposal.as_ref(), &mut out);
     supply::checks(board, run, &mut out)?;
+    armature::checks(board, run, &mut out)?;
     Ok(out)
 }
 

@@ -129,6 +129,8 @@ pub struct Driver {
     pub hold: Option<HoldSpec>,
     /// Diagnosis, if wanted.
     pub diagnosis: Option<DiagnosisSpec>,
+    /// The moving armature, for pull-in and its detection from the current, if given.
+    pub armature: Option<ArmatureSpec>,
 }
 
 fn one() -> Spanned<u32> {
@@ -269,6 +271,40 @@ impl ClampSpec {
             ("shared", self.shared.as_ref().map(|v| v.span())),
         ]
     }
+}
+
+/// The moving armature and the ADC that watches its pull-in.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ArmatureSpec {
+    /// Moving mass.
+    pub mass: Q,
+    /// Stroke, open to seated.
+    pub stroke: Q,
+    /// Spring force at the open position.
+    pub spring_preload: Q,
+    /// Spring rate.
+    pub spring_rate: Q,
+    /// Constant load pushing open; optional (0 N).
+    pub load: Option<Q>,
+    /// Viscous damping; optional (0).
+    pub damping: Option<Q>,
+    /// Inductance with the armature open (the coil's inductance is the seated one).
+    pub open_inductance: Q,
+    /// The air-gap law's fringing length g₀.
+    pub fringe: Q,
+    /// ± tolerance of mass, stroke, spring, load, damping and g₀; optional (0 %).
+    pub tolerance: Option<Q>,
+    /// ± tolerance of the open inductance; optional (the coil's inductance tolerance).
+    pub open_inductance_tolerance: Option<Q>,
+    /// The ADC's sample rate on the coil current.
+    pub adc_rate: Q,
+    /// ADC counts per ampere of coil current.
+    pub adc_counts_per_amp: Q,
+    /// The first saturated count.
+    pub adc_full_scale: Q,
+    /// Noise per sample, counts, peak, each side.
+    pub adc_noise: Q,
 }
 
 /// PWM peak-and-hold.

@@ -49,6 +49,20 @@ pub enum Unit {
     AmpsPerVoltSquared,
     /// a dimensionless number (no unit)
     Number,
+    /// newtons
+    Newton,
+    /// kilograms, written in grams ("12 g", "1.2 kg")
+    Kilogram,
+    /// metres ("1.5 mm")
+    Metre,
+    /// a spring rate in N/m
+    NewtonPerMetre,
+    /// viscous damping in N·s/m
+    NewtonSecondPerMetre,
+    /// ADC counts
+    Counts,
+    /// ADC counts per ampere of coil current
+    CountsPerAmp,
 }
 
 impl Unit {
@@ -73,6 +87,13 @@ impl Unit {
             Unit::Ticks => &["ticks", "tick"],
             Unit::AmpsPerVoltSquared => &["A/V²", "A/V^2", "A/V2"],
             Unit::Number => &[""],
+            Unit::Newton => &["N"],
+            Unit::Kilogram => &["g"],
+            Unit::Metre => &["m"],
+            Unit::NewtonPerMetre => &["N/m"],
+            Unit::NewtonSecondPerMetre => &["N·s/m", "N*s/m", "Ns/m"],
+            Unit::Counts => &["counts", "count"],
+            Unit::CountsPerAmp => &["counts/A"],
         }
     }
 
@@ -87,6 +108,8 @@ impl Unit {
                 | Unit::KelvinPerWatt
                 | Unit::Ticks
                 | Unit::Number
+                | Unit::Counts
+                | Unit::CountsPerAmp
         )
     }
 
@@ -111,6 +134,13 @@ impl Unit {
             Unit::Ticks => "\"2 ticks\"",
             Unit::AmpsPerVoltSquared => "\"5 A/V²\"",
             Unit::Number => "\"30\"",
+            Unit::Newton => "\"0.3 N\"",
+            Unit::Kilogram => "\"12 g\"",
+            Unit::Metre => "\"1.5 mm\"",
+            Unit::NewtonPerMetre => "\"500 N/m\"",
+            Unit::NewtonSecondPerMetre => "\"2 N·s/m\"",
+            Unit::Counts => "\"4 counts\"",
+            Unit::CountsPerAmp => "\"3000 counts/A\"",
         }
     }
 }
@@ -209,6 +239,8 @@ fn number_prefix_len(t: &str) -> usize {
 fn scale(v: f64, unit: Unit) -> f64 {
     match unit {
         Unit::Percent | Unit::PercentPerKelvin => v / 100.0,
+        // Written in grams, kept in kilograms.
+        Unit::Kilogram => v / 1000.0,
         _ => v,
     }
 }
@@ -233,6 +265,12 @@ mod tests {
         assert!(parse("350 mHz", Unit::Henry).unwrap_err().contains("mHz"));
         assert!(parse("abc V", Unit::Volt).unwrap_err().contains("number"));
         assert!(parse("5 mK", Unit::Kelvin).is_err());
+        assert!((parse("12 g", Unit::Kilogram).unwrap() - 0.012).abs() < 1e-15);
+        assert!((parse("1.2 kg", Unit::Kilogram).unwrap() - 1.2).abs() < 1e-12);
+        assert!((parse("1.5 mm", Unit::Metre).unwrap() - 1.5e-3).abs() < 1e-15);
+        assert!((parse("2 N·s/m", Unit::NewtonSecondPerMetre).unwrap() - 2.0).abs() < 1e-15);
+        assert!((parse("1 kN/m", Unit::NewtonPerMetre).unwrap() - 1e3).abs() < 1e-9);
+        assert!(parse("3 kcounts", Unit::Counts).is_err());
         // Found by fuzzing: a prefix that overflows f64.
         assert!(parse("4.e307kΩ", Unit::Ohm)
             .unwrap_err()

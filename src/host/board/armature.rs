@@ -1,0 +1,172 @@
+//! The armature section of a driver: the moving parts, their tolerances and the ADC that
+//! samples the coil current at pull-in.
+
+use super::read::{range, ReadQ};
+use super::ArmatureBoard;
+use crate::armature::sizing::{Adc, Tolerances};
+use crate::armature::{Armature, GapInductance};
+use crate::coil::Coil;
+use crate::host::file::quantity::Unit;
+use crate::host::file::{self, Reader};
+use crate::host::HostError;
+use crate::units::{Henries, Hertz};
+use std::format;
+
+/// Converts a driver's armature section.
+///
+/// # Errors
+/// A located error for a missing or out-of-range value, an open inductance not below the
+/// coil's (seated) inductance, a count that is not a whole number.
+pub fn convert(
+    r: &Reader<'_>,
+    field: &str,
+    d: &file::Driver,
+    coil: &Coil,
+    l_tol: f32,
+) -> Result<Option<ArmatureBoard>, HostError> {
+    let Some(a) = &d.armature else {
+        return Ok(None);
+    };
+    let at = |x: &str| format!("{field}.armature.{x}");
+    let newton = range(0.0, 1e5, "0 … 100 kN");
+    let mass = r.q(
+        &a.mass,
+        &at("mass"),
+        Unit::Kilogram,
+        range(1e-6, 100.0, "1 mg … 100 kg"),
+    )?;
+    let stroke = r.q(
+        &a.stroke,
+        &at("stroke"),
+        Unit::Metre,
+        range(0.0, 0.1, "0 … 100 mm"),
+    )?;
+    let preload = r.q(
+        &a.spring_preload,
+        &at("spring_preload"),
+        Unit::Newton,
+        newton,
+    )?;
+    let rate = r.q(
+        &a.spring_rate,
+        &at("spring_rate"),
+        Unit::NewtonPerMetre,
+        range(0.0, 1e8, "0 … 100 MN/m"),
+    )?;
+    let load = r
+        .oq(
+            &a.load,
+            &at("load"),
+            Unit::Newton,
+            range(-1e5, 1e5, "−100 … 100 kN"),
+        )?
+        .unwrap_or(0.0);
+    let damping = r
+        .oq(
+            &a.damping,
+            &at("damping"),
+            Unit::NewtonSecondPerMetre,
+            range(0.0, 1e6, "0 … 1 MN·s/m"),
+        )?
+        .unwrap_or(0.0);
+    let open = r.q(
+        &a.open_inductance,
+        &at("open_inductance"),
+        Unit::Henry,
+        range(1e-9, 1e3, "1 nH … 1 kH"),
+    )?;
+    if !(open < coil.inductance().value()) {
+        return Err(r.at(
+            &at("open_inductance"),
+            "must be below the coil's inductance (the seated one): opening the gap lowers L",
+        ));
+    }
+    let g0 = r.q(
+        &a.fringe,
+        &at("fringe"),
+        Unit::Metre,
+        range(1e-7, 0.1, "0.1 µm … 100 mm"),
+    )?;
+    let pct = range(0.0, 0.5, "0 … 50 %");
+    let tol = r
+        .oq(&a.tolerance, &at("tolerance"), Unit::Percent, pct)?
+        .unwrap_or(0.0);
+    let open_tol = r
+        .oq(
+            &a.open_inductance_tolerance,
+            &at("open_inductance_tolerance"),
+            Unit::Percent,
+            pct,
+        )?
+        .unwrap_or(l_tol);
+    if !(open * (1.0 + open_tol) < coil.inductance().value() * (1.0 - l_tol)) {
+        return Err(r.at(
+            &at("open_inductance_tolerance"),
+            "the open and seated inductances overlap over their tolerances: the highest open L must stay below the lowest seated L",
+        ));
+    }
+    let adc_rate = r.q(
+        &a.adc_rate,
+        &at("adc_rate"),
+        Unit::Hertz,
+        range(1.0, 1e8, "1 Hz … 100 MHz"),
+    )?;
+    let cpa = r.q(
+        &a.adc_counts_per_amp,
+        &at("adc_counts_per_amp"),
+        Unit::CountsPerAmp,
+        range(1e-3, 1e9, "0.001 … 10⁹ counts/A"),
+    )?;
+    let count = |q: &file::Q, name: &str, lo: f64| -> Result<u16, HostError> {
+        let x = r.q(
+            q,
+            &at(name),
+            Unit::Counts,
+            range(lo, 65535.0, "a whole count up to 65535"),
+        )?;
+        if x.fract() != 0.0 {
+            return Err(r.at(&at(name), "must be a whole number of counts"));
+        }
+        Ok(x as u16)
+    };
+    let full_scale = count(&a.adc_full_scale, "adc_full_scale", 2.0)?;
+    let noise = count(&a.adc_noise, "adc_noise", 0.0)?;
+    let model = |name: &str| {
+        let name = at(name);
+        move |e: crate::Error| r.model(&name, e)
+    };
+    let nominal = Armature {
+        mass_kg: mass,
+        stroke_m: stroke,
+        preload_n: preload,
+        spring_n_per_m: rate,
+        load_n: load,
+        damping_n_s_per_m: damping,
+        inductance: GapInductance {
+            seat: coil.inductance(),
+            open: Henries::new(open).map_err(model("open_inductance"))?,
+            g0_m: g0,
+        },
+    };
+    nominal.validate().map_err(model(""))?;
+    Ok(Some(ArmatureBoard {
+        nominal,
+        tol: Tolerances {
+            mass: tol,
+            stroke: tol,
+            preload: tol,
+            spring: tol,
+            load: tol,
+            damping: tol,
+            l_seat: l_tol,
+            l_open: open_tol,
+            g0: tol,
+        },
+        adc: Adc {
+            rate: Hertz::new(adc_rate).map_err(model("adc_rate"))?,
+            counts_per_amp: cpa,
+            full_scale,
+            noise_counts: noise,
+        },
+    }))
+}

@@ -1,0 +1,204 @@
+//! The moving armature: does it pull in at every corner, when is it seated, does the hold wait
+//! for it, and can the ADC see it move — with the detector's thresholds emitted.
+//!
+//! The corners are the library's ([`crate::armature::sizing`]): eleven axes, the mechanics and
+//! both inductances over their tolerances, the driver's supply range, and the coil's resistance
+//! from its coldest winding at the low tolerance to its hottest at the high one.
+
+use super::{ticks_up, Check, Constant, Corner, Outcome, Status, Unit};
+use crate::armature::sizing::{
+    confirm_amps, detector_for, pull_in_window, run_for, DriveRange, NotDetectable, PullInWindow,
+};
+use crate::host::board::{ArmatureBoard, Board, DriverBoard};
+use crate::host::corners::Axis;
+use crate::host::engine::DriverRun;
+use crate::host::HostError;
+use crate::units::{Ohms, Seconds, Temperature};
+use std::format;
+use std::string::String;
+use std::vec::Vec;
+
+/// The armature's checks and constants, if the driver has an armature section.
+///
+/// # Errors
+/// A model refusal (a corner the integrator cannot finish), located at the section.
+pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), HostError> {
+    let d = &run.d;
+    let Some(a) = d.armature.as_ref() else {
+        return Ok(());
+    };
+    let field = format!("{}.armature", d.field);
+    let fault = |e: crate::Error| board.fault(&field, format!("{e}"));
+    let drive = drive_range(run).map_err(fault)?;
+    let duration = Seconds::new(
+        30.0 * a.nominal.inductance.seat.value() * (1.0 + a.tol.l_seat)
+            / drive.resistance_min.value(),
+    )
+    .map_err(fault)?;
+    let run_a = run_for(&a.adc, duration).map_err(fault)?;
+    let confirm = confirm_amps(&a.adc).map_err(fault)?;
+    let w = pull_in_window(&a.nominal, &a.tol, &drive, &run_a, confirm).map_err(fault)?;
+    pulls_in(board, d, &w, duration, out)?;
+    hold_waits(board, d, &w, out);
+    detectable(d, a, &w, out).map_err(fault)?;
+    Ok(())
+}
+
+/// Supply range and coil resistance from the coldest winding at −tolerance to the hottest at
+/// +tolerance.
+fn drive_range(run: &DriverRun) -> Result<DriveRange, crate::Error> {
+    let d = &run.d;
+    let (t_lo, t_hi) = run.space.range(Axis::Winding);
+    let r = |t: f32, k: f32| -> Result<Ohms, crate::Error> {
+        Ohms::new(d.coil.resistance(Temperature::from_celsius(t)?)?.value() * k)
+    };
+    Ok(DriveRange {
+        supply_min: d.supply.min,
+        supply_max: d.supply.max,
+        resistance_min: r(t_lo, 1.0 - d.r_tol)?,
+        resistance_max: r(t_hi, 1.0 + d.r_tol)?,
+    })
+}
+
+/// The axes of a corner index in words.
+fn corner_words(k: u32) -> String {
+    const AXES: [(&str, &str, &str); 11] = [
+        ("mass", "light", "heavy"),
+        ("stroke", "short", "long"),
+        ("preload", "low", "high"),
+        ("spring rate", "low", "high"),
+        ("load", "low", "high"),
+        ("damping", "low", "high"),
+        ("seated L", "low", "high"),
+        ("open L", "low", "high"),
+        ("fringe g0", "short", "long"),
+        ("supply", "lowest", "highest"),
+        ("coil", "cold, low R", "hot, high R"),
+    ];
+    let parts: Vec<String> = AXES
+        .iter()
+        .enumerate()
+        .map(|(b, (name, lo, hi))| format!("{name} {}", if k & (1 << b) == 0 { lo } else { hi }))
+        .collect();
+    parts.join(", ")
+}
+
+/// Pull-in at every corner, and the slowest seating.
+fn pulls_in(
+    board: &Board,
+    d: &DriverBoard,
+    w: &PullInWindow,
+    duration: Seconds,
+    out: &mut Outcome,
+) -> Result<(), HostError> {
+    if let Some(k) = w.not_seated {
+        out.checks.push(
+            Check::worded(&d.name, "armature_pull_in", "armature pull-in at every corner", Status::Fail, "does not seat", Corner::Stated(corner_words(k)))
+                .noted(format!("at this corner the armature does not reach its seat within {:.0} ms of switch-on (30 seated time constants at the cold coil): the valve or relay does not operate; a stronger coil, a higher supply or a weaker spring", duration.value() * 1e3)),
+        );
+        return Ok(());
+    }
+    out.checks.push(
+        Check::valued(&d.name, "armature_pull_in", "armature seated after switch-on (slowest corner)", w.seated.hi, Unit::Second, None, Corner::Stated("the slowest of 2048 corners".into()))
+            .noted(format!(
+                "moves {:.2} … {:.2} ms after switch-on, seated {:.2} … {:.2} ms; the dip {:.1} … {:.1} mA (a dynamic pull-in: the current the coil reaches while the armature moves, not only the static operate current)",
+                w.motion_start.lo * 1e3, w.motion_start.hi * 1e3, w.seated.lo * 1e3, w.seated.hi * 1e3, w.dip.lo * 1e3, w.dip.hi * 1e3
+            )),
+    );
+    out.constants.push(Constant::new(
+        &d.module,
+        "ARMATURE_SEATED_TICKS",
+        ticks_up(board, w.seated.hi)?,
+        "the armature is seated this long after switch-on at every corner (rounded up)",
+    ));
+    Ok(())
+}
+
+/// The hold must not start before the slowest armature seats.
+fn hold_waits(board: &Board, d: &DriverBoard, w: &PullInWindow, out: &mut Outcome) {
+    let Some(c) = out
+        .constants
+        .iter()
+        .find(|c| c.scope == d.module && c.name == "PULL_IN_TICKS")
+    else {
+        return;
+    };
+    if w.not_seated.is_some() {
+        return;
+    }
+    let t_hold = c.value as f32 / board.tick.value();
+    let ok = t_hold >= w.seated.hi;
+    out.checks.push(
+        Check::worded(
+            &d.name,
+            "armature_before_hold",
+            "full drive lasts until the armature seats",
+            if ok { Status::Pass } else { Status::Fail },
+            if ok { "seated first" } else { "hold starts too early" },
+            Corner::Stated("the slowest corner".into()),
+        )
+        .noted(format!(
+            "full drive for {:.2} ms (PULL_IN_TICKS); the slowest armature seats at {:.2} ms{}",
+            t_hold * 1e3,
+            w.seated.hi * 1e3,
+            if ok {
+                String::new()
+            } else {
+                String::from(": the hold current may not pull it in — drive fully until ARMATURE_SEATED_TICKS, or until the detector sees the seat")
+            }
+        )),
+    );
+}
+
+/// Whether the ADC sees the motion, with the detector's constants.
+fn detectable(
+    d: &DriverBoard,
+    a: &ArmatureBoard,
+    w: &PullInWindow,
+    out: &mut Outcome,
+) -> Result<(), crate::Error> {
+    let adc = &a.adc;
+    let dip_counts = w.sampled_dip_min * adc.counts_per_amp;
+    match detector_for(w, adc)? {
+        Ok(cfg) => {
+            out.checks.push(
+                Check::worded(&d.name, "armature_detectable", "armature motion seen by the ADC", Status::Pass, "detectable", Corner::Stated("every corner".into()))
+                    .noted(format!(
+                        "the smallest dip as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts; with ±{} counts of noise the detector confirms a turn {} counts deep and calls a dip of {} counts motion; a stuck armature's plain rise never turns that far; verdict within {} samples (kickguard::armature::detect)",
+                        adc.rate.value(), w.sampled_dip_min * 1e3, dip_counts, adc.noise_counts, cfg.hysteresis, cfg.min_dip, cfg.window
+                    )),
+            );
+            for (name, value, doc) in [
+                ("ARMATURE_RISE_COUNTS", u32::from(cfg.rise), "DipConfig::rise: counts the current must rise before a turn counts"),
+                ("ARMATURE_HYSTERESIS_COUNTS", u32::from(cfg.hysteresis), "DipConfig::hysteresis: the turn that confirms a peak or valley (above twice the noise)"),
+                ("ARMATURE_MIN_DIP_COUNTS", u32::from(cfg.min_dip), "DipConfig::min_dip: the dip that means the armature moved"),
+                ("ARMATURE_WINDOW_SAMPLES", cfg.window, "DipConfig::window: samples from switch-on to the verdict"),
+                ("ARMATURE_FULL_SCALE_COUNTS", u32::from(cfg.full_scale), "DipConfig::full_scale: the first saturated count"),
+            ] {
+                out.constants.push(Constant::new(&d.module, name, value, doc));
+            }
+        }
+        Err(why) => {
+            let reason = match why {
+                NotDetectable::DoesNotPullIn => String::from("some corner does not pull in (see armature_pull_in)"),
+                NotDetectable::Saturates => format!("the largest current, {:.0} mA, reaches the ADC's full scale", w.current_max * 1e3),
+                NotDetectable::DipTooSmall => format!("the smallest sampled dip is {:.0} counts; with ±{} counts of noise it needs {} (more gain, a faster ADC, less noise)", dip_counts, adc.noise_counts, 6 * (u32::from(adc.noise_counts) + 1) + 1),
+                NotDetectable::NoClimb => String::from("some corner's current does not climb far enough after its valley to confirm it"),
+            };
+            out.checks.push(
+                Check::worded(
+                    &d.name,
+                    "armature_detectable",
+                    "armature motion seen by the ADC",
+                    Status::Warn,
+                    "not detectable",
+                    Corner::Stated("the worst corner".into()),
+                )
+                .noted(format!(
+                    "{reason}; a stuck armature cannot be told from a moving one with this ADC"
+                )),
+            );
+        }
+    }
+    Ok(())
+}
