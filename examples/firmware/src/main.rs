@@ -50,6 +50,71 @@ fn main() {
     }
 
     learn_persist_restore();
+    did_the_valve_open();
+}
+
+/// The coil-current ADC at switch-on, fed to the detector the configuration step sized: a
+/// valve whose plunger moved, and one stuck shut (the plunger held open by dirt: a plain rise).
+/// On the target the samples come from the ADC's DMA half-buffers at the configured rate; here
+/// the library's armature model stands in for the hardware (nominal plunger, 24 V, 56 Ω).
+fn did_the_valve_open() {
+    use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
+    use kickguard::armature::motion::{pull_in, Run};
+    use kickguard::armature::{Armature, GapInductance};
+    use kickguard::{Henries, Ohms, Seconds, Volts};
+    let cfg = DipConfig {
+        polarity: Polarity::Rising,
+        rise: config::valve::ARMATURE_RISE_COUNTS as u16,
+        hysteresis: config::valve::ARMATURE_HYSTERESIS_COUNTS as u16,
+        min_dip: config::valve::ARMATURE_MIN_DIP_COUNTS as u16,
+        window: config::valve::ARMATURE_WINDOW_SAMPLES,
+        full_scale: config::valve::ARMATURE_FULL_SCALE_COUNTS as u16,
+    };
+    // The demo's plunger (examples/greenhouse.toml), nominal; stuck: no stroke to travel.
+    let plunger = |stroke_m: f32| Armature {
+        mass_kg: 0.005,
+        stroke_m,
+        preload_n: 0.3,
+        spring_n_per_m: 300.0,
+        load_n: 0.2,
+        damping_n_s_per_m: 1.0,
+        inductance: GapInductance {
+            seat: Henries::new(if stroke_m > 0.0 { 0.35 } else { 0.22 }).unwrap(),
+            open: Henries::new(0.22).unwrap(),
+            g0_m: 0.4e-3,
+        },
+    };
+    let run = Run {
+        duration: Seconds::new(0.02).unwrap(),
+        sample_period: Seconds::new(1e-4).unwrap(), // the 10 kHz ADC
+        tolerance: 1e-5,
+    };
+    for (what, stroke) in [("a valve that opens", 0.8e-3), ("a valve stuck shut", 0.0)] {
+        let mut amps = [0f32; 200];
+        pull_in(
+            &plunger(stroke),
+            Ohms::new(56.0).unwrap(),
+            Volts::new(24.0).unwrap(),
+            &run,
+            &mut amps,
+        )
+        .expect("the model runs");
+        // 5000 counts per ampere, as the design file says.
+        let counts: Vec<u16> = amps.iter().map(|a| (a * 5000.0).round() as u16).collect();
+        let mut d = DipDetector::new(cfg);
+        let verdict = d.push_slice(&counts).unwrap_or_else(|| d.finish());
+        println!("{what}: {verdict:?}");
+        match verdict {
+            Motion::Moved { at, dip } => println!(
+                "  the plunger seated at sample {at} ({} ms), dip {dip} counts: switch to the hold current now",
+                at as f32 / 10.0
+            ),
+            Motion::NotMoved => println!(
+                "  the plunger did not move: the valve did not open — stop the pump, report the zone"
+            ),
+            Motion::Unclear(why) => println!("  no verdict ({why:?}): retry once, then report"),
+        }
+    }
 }
 
 /// This unit's own healthy window, learned from its first switch-offs on the 30 V comparator,

@@ -39,7 +39,7 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
     let confirm = confirm_amps(&a.adc).map_err(fault)?;
     let w = pull_in_window(&a.nominal, &a.tol, &drive, &run_a, confirm).map_err(fault)?;
     pulls_in(board, d, &w, duration, out)?;
-    hold_waits(board, d, &w, out);
+    hold_waits(board, d, &w, &drive, out);
     detectable(d, a, &w, out).map_err(fault)?;
     Ok(())
 }
@@ -114,8 +114,15 @@ fn pulls_in(
     Ok(())
 }
 
-/// The hold must not start before the slowest armature seats.
-fn hold_waits(board: &Board, d: &DriverBoard, w: &PullInWindow, out: &mut Outcome) {
+/// The hold must not start before the slowest armature seats; and what switching to hold at
+/// the detected seat would save.
+fn hold_waits(
+    board: &Board,
+    d: &DriverBoard,
+    w: &PullInWindow,
+    drive: &DriveRange,
+    out: &mut Outcome,
+) {
     let Some(c) = out
         .constants
         .iter()
@@ -138,16 +145,38 @@ fn hold_waits(board: &Board, d: &DriverBoard, w: &PullInWindow, out: &mut Outcom
             Corner::Stated("the slowest corner".into()),
         )
         .noted(format!(
-            "full drive for {:.2} ms (PULL_IN_TICKS); the slowest armature seats at {:.2} ms{}",
+            "full drive for {:.2} ms (PULL_IN_TICKS); the slowest armature seats at {:.2} ms{}{}",
             t_hold * 1e3,
             w.seated.hi * 1e3,
             if ok {
                 String::new()
             } else {
                 String::from(": the hold current may not pull it in — drive fully until ARMATURE_SEATED_TICKS, or until the detector sees the seat")
-            }
+            },
+            adaptive(d, w, drive, t_hold)
         )),
     );
+}
+
+/// What a firmware that switches to hold when the detector sees the seat saves against the
+/// fixed full drive: (t_hold − seated) of full drive, at most (V_max²/R_min − I_hold²·R_min)
+/// times the longest of it per switch-on (each factor at its own extreme: an upper bound).
+fn adaptive(d: &DriverBoard, w: &PullInWindow, drive: &DriveRange, t_hold: f32) -> String {
+    let Some(h) = d.hold.as_ref() else {
+        return String::new();
+    };
+    let (lo, hi) = (
+        (t_hold - w.seated.hi).max(0.0),
+        (t_hold - w.seated.lo).max(0.0),
+    );
+    let r = drive.resistance_min.value();
+    let v = drive.supply_max.value();
+    let p = v * v / r - h.hold.value() * h.hold.value() * r;
+    let e = p.max(0.0) * hi;
+    let rate = d.switching_rate.map_or(String::new(), |f| {
+        format!(", {:.1} mW at {} Hz", e * f.value() * 1e3, f.value())
+    });
+    format!("; switching to hold when the detector sees the seat (Motion::Moved) instead saves up to {:.2} … {:.2} ms of full drive per switch-on (less the samples the detector takes to confirm the valley), at most {:.1} mJ of winding heat{rate}", lo * 1e3, hi * 1e3, e * 1e3)
 }
 
 /// Whether the ADC sees the motion, with the detector's constants.
