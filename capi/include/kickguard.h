@@ -159,6 +159,32 @@
 #define KG_REASON_OVERFLOW 14
 
 /**
+ * Most samples one kg_dip_push takes (a DMA half-buffer).
+ */
+#define KG_DIP_MAX_SAMPLES 4096
+
+/**
+ * Motion kind: no verdict yet (kg_motion.kind).
+ */
+#define KG_MOTION_PENDING 0
+
+/**
+ * Motion kind: the armature moved (the dip, or the release's bump, at kg_motion.at).
+ */
+#define KG_MOTION_MOVED 1
+
+/**
+ * Motion kind: a plain rise (or fall) through the window: it did not move.
+ */
+#define KG_MOTION_NOT_MOVED 2
+
+/**
+ * Motion kind: no verdict can be trusted; kg_motion.why says why (1 saturated, 2 no rise,
+ * 3 noisy, 4 too few samples, 5 bad configuration).
+ */
+#define KG_MOTION_UNCLEAR 3
+
+/**
  * The outcome of a call: `code` 0 on success; otherwise the reason and the input at fault.
  */
 typedef struct {
@@ -321,6 +347,94 @@ typedef struct {
   float clamp_over_r_a;
 } kg_fit;
 
+/**
+ * The armature detector's thresholds (see kickguard::armature::detect::DipConfig; the
+ * configuration step emits them as ARMATURE_* constants).
+ */
+typedef struct {
+  /**
+   * 0 pull-in (a rising current, motion shows as a dip), 1 release (a falling current, a
+   * bump).
+   */
+  uint8_t polarity;
+  /**
+   * Counts the signal must move from its first sample before a turn counts.
+   */
+  uint16_t rise;
+  /**
+   * The turn that confirms a peak or valley, counts.
+   */
+  uint16_t hysteresis;
+  /**
+   * The dip that means motion, counts.
+   */
+  uint16_t min_dip;
+  /**
+   * Samples to the verdict.
+   */
+  uint32_t window;
+  /**
+   * The first saturated count.
+   */
+  uint16_t full_scale;
+} kg_dip_config;
+
+/**
+ * The detector's progress between calls; zero-initialise it to start a switching.
+ */
+typedef struct {
+  /**
+   * Samples taken.
+   */
+  uint32_t n;
+  /**
+   * The first sample (mirrored for a release).
+   */
+  uint16_t first;
+  /**
+   * The running maximum.
+   */
+  uint16_t top;
+  /**
+   * The running minimum after the peak.
+   */
+  uint16_t bottom;
+  /**
+   * Where the minimum was.
+   */
+  uint32_t bottom_at;
+  /**
+   * Sub-threshold turns seen.
+   */
+  uint8_t wiggles;
+  /**
+   * 1 past a confirmed peak.
+   */
+  uint8_t falling;
+} kg_dip_state;
+
+/**
+ * The detector's answer.
+ */
+typedef struct {
+  /**
+   * KG_MOTION_PENDING, _MOVED, _NOT_MOVED or _UNCLEAR.
+   */
+  uint8_t kind;
+  /**
+   * With _MOVED: the sample index of the valley (or the bump's top).
+   */
+  uint32_t at;
+  /**
+   * With _MOVED: the dip (or bump), counts.
+   */
+  uint16_t dip;
+  /**
+   * With _UNCLEAR: 1 saturated, 2 no rise, 3 noisy, 4 too few samples, 5 bad configuration.
+   */
+  uint8_t why;
+} kg_motion;
+
 #ifdef __cplusplus
 extern "C" {
 #endif // __cplusplus
@@ -424,6 +538,24 @@ kg_status kg_history_consecutive(const kg_history *h, const kg_verdict *v, uint3
  * `samples_a` is null or valid for reads of `n` floats; `out` null or valid for writes.
  */
 kg_status kg_fit_decay(const float *samples_a, size_t n, float interval_s, kg_fit *out);
+
+/**
+ * Feeds `n` ADC samples (1 … KG_DIP_MAX_SAMPLES) to the armature detector whose progress is
+ * `state` (zeroed at switch-on); writes the answer to `out` and the new progress to `state`.
+ * Once `out->kind` is not KG_MOTION_PENDING the verdict is final: zero `state` for the next
+ * switching. `finish` non-zero: the samples have ended (a pending verdict becomes
+ * "too few samples"). Integer only; constant work per sample.
+ *
+ * Safety:
+ * `cfg` and `samples` are null or valid for reads (`n` samples); `state` null or valid for
+ * reads and writes; `out` null or valid for writes.
+ */
+kg_status kg_dip_push(const kg_dip_config *cfg,
+                      kg_dip_state *state,
+                      const uint16_t *samples,
+                      size_t n,
+                      uint8_t finish,
+                      kg_motion *out);
 
 #ifdef __cplusplus
 }  // extern "C"

@@ -1,6 +1,7 @@
 //! C ABI for kickguard's run-time functions: the diode drop and the diode thermometer, coil
 //! R(T), winding temperature and steady current, the closed-form constant-clamp decay, the
-//! diagnosis verdict on a tick count with its history, and the decay fit.
+//! diagnosis verdict on a tick count with its history, the decay fit, and the armature's dip
+//! detector.
 //!
 //! Conventions (the header `include/kickguard.h` is generated from this file by cbindgen):
 //! - every function returns a [`kg_status`]: code 0 on success, else the library's
@@ -654,6 +655,176 @@ pub unsafe extern "C" fn kg_fit_decay(
             clamp_over_r_a: f.clamp_over_r,
         })
     })
+}
+
+/// Most samples one kg_dip_push takes (a DMA half-buffer).
+pub const KG_DIP_MAX_SAMPLES: usize = 4096;
+/// Motion kind: no verdict yet (kg_motion.kind).
+pub const KG_MOTION_PENDING: u8 = 0;
+/// Motion kind: the armature moved (the dip, or the release's bump, at kg_motion.at).
+pub const KG_MOTION_MOVED: u8 = 1;
+/// Motion kind: a plain rise (or fall) through the window: it did not move.
+pub const KG_MOTION_NOT_MOVED: u8 = 2;
+/// Motion kind: no verdict can be trusted; kg_motion.why says why (1 saturated, 2 no rise,
+/// 3 noisy, 4 too few samples, 5 bad configuration).
+pub const KG_MOTION_UNCLEAR: u8 = 3;
+
+/// The armature detector's thresholds (see kickguard::armature::detect::DipConfig; the
+/// configuration step emits them as ARMATURE_* constants).
+#[repr(C)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct kg_dip_config {
+    /// 0 pull-in (a rising current, motion shows as a dip), 1 release (a falling current, a
+    /// bump).
+    pub polarity: u8,
+    /// Counts the signal must move from its first sample before a turn counts.
+    pub rise: u16,
+    /// The turn that confirms a peak or valley, counts.
+    pub hysteresis: u16,
+    /// The dip that means motion, counts.
+    pub min_dip: u16,
+    /// Samples to the verdict.
+    pub window: u32,
+    /// The first saturated count.
+    pub full_scale: u16,
+}
+
+/// The detector's progress between calls; zero-initialise it to start a switching.
+#[repr(C)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct kg_dip_state {
+    /// Samples taken.
+    pub n: u32,
+    /// The first sample (mirrored for a release).
+    pub first: u16,
+    /// The running maximum.
+    pub top: u16,
+    /// The running minimum after the peak.
+    pub bottom: u16,
+    /// Where the minimum was.
+    pub bottom_at: u32,
+    /// Sub-threshold turns seen.
+    pub wiggles: u8,
+    /// 1 past a confirmed peak.
+    pub falling: u8,
+}
+
+/// The detector's answer.
+#[repr(C)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+pub struct kg_motion {
+    /// KG_MOTION_PENDING, _MOVED, _NOT_MOVED or _UNCLEAR.
+    pub kind: u8,
+    /// With _MOVED: the sample index of the valley (or the bump's top).
+    pub at: u32,
+    /// With _MOVED: the dip (or bump), counts.
+    pub dip: u16,
+    /// With _UNCLEAR: 1 saturated, 2 no rise, 3 noisy, 4 too few samples, 5 bad configuration.
+    pub why: u8,
+}
+
+fn motion_to(m: Option<kickguard::armature::detect::Motion>) -> kg_motion {
+    use kickguard::armature::detect::{Motion, Unclear};
+    match m {
+        None => kg_motion::default(),
+        Some(Motion::Moved { at, dip }) => kg_motion {
+            kind: KG_MOTION_MOVED,
+            at,
+            dip,
+            why: 0,
+        },
+        Some(Motion::NotMoved) => kg_motion {
+            kind: KG_MOTION_NOT_MOVED,
+            ..kg_motion::default()
+        },
+        Some(Motion::Unclear(u)) => kg_motion {
+            kind: KG_MOTION_UNCLEAR,
+            why: match u {
+                Unclear::Saturated => 1,
+                Unclear::NoRise => 2,
+                Unclear::Noisy => 3,
+                Unclear::TooFewSamples => 4,
+                Unclear::BadConfig => 5,
+            },
+            ..kg_motion::default()
+        },
+    }
+}
+
+/// Feeds `n` ADC samples (1 … KG_DIP_MAX_SAMPLES) to the armature detector whose progress is
+/// `state` (zeroed at switch-on); writes the answer to `out` and the new progress to `state`.
+/// Once `out->kind` is not KG_MOTION_PENDING the verdict is final: zero `state` for the next
+/// switching. `finish` non-zero: the samples have ended (a pending verdict becomes
+/// "too few samples"). Integer only; constant work per sample.
+///
+/// Safety:
+/// `cfg` and `samples` are null or valid for reads (`n` samples); `state` null or valid for
+/// reads and writes; `out` null or valid for writes.
+#[no_mangle]
+pub unsafe extern "C" fn kg_dip_push(
+    cfg: *const kg_dip_config,
+    state: *mut kg_dip_state,
+    samples: *const u16,
+    n: usize,
+    finish: u8,
+    out: *mut kg_motion,
+) -> kg_status {
+    use kickguard::armature::detect::{DipConfig, DipDetector, DipProgress, Polarity};
+    // SAFETY: forwarded caller contract.
+    let (Some(cfg), Some(state)) = (unsafe { in_ref(cfg) }, unsafe { inout_ref(state) }) else {
+        return kg_status::of(KG_NULL_POINTER, "cfg or state");
+    };
+    // SAFETY: forwarded caller contract.
+    let samples = match unsafe { in_slice(samples, n, KG_DIP_MAX_SAMPLES, ("samples", "n")) } {
+        Ok(x) => x,
+        Err(s) => return s,
+    };
+    let polarity = match cfg.polarity {
+        0 => Polarity::Rising,
+        1 => Polarity::Falling,
+        _ => return kg_status::of(KG_BAD_CODE, "polarity"),
+    };
+    let config = DipConfig {
+        polarity,
+        rise: cfg.rise,
+        hysteresis: cfg.hysteresis,
+        min_dip: cfg.min_dip,
+        window: cfg.window,
+        full_scale: cfg.full_scale,
+    };
+    let mut d = DipDetector::resume(
+        config,
+        DipProgress {
+            n: state.n,
+            first: state.first,
+            top: state.top,
+            bottom: state.bottom,
+            bottom_at: state.bottom_at,
+            wiggles: state.wiggles,
+            falling: state.falling != 0,
+        },
+    );
+    let mut m = d.push_slice(samples);
+    if m.is_none() && finish != 0 {
+        m = Some(d.finish());
+    }
+    let p = d.progress();
+    *state = kg_dip_state {
+        n: p.n,
+        first: p.first,
+        top: p.top,
+        bottom: p.bottom,
+        bottom_at: p.bottom_at,
+        wiggles: p.wiggles,
+        falling: u8::from(p.falling),
+    };
+    // SAFETY: forwarded caller contract.
+    finish_ok(unsafe { out_ref(out) }, motion_to(m))
+}
+
+/// Writes `v` to `out` (null: refused).
+fn finish_ok<T>(out: Option<&mut T>, v: T) -> kg_status {
+    finish(out, || Ok(v))
 }
 
 /// The panic handler a bare-metal static library needs. Unreachable: every call goes to

@@ -81,4 +81,13 @@ fn c_program_matches_the_library_and_refuses_hostile_input() {
     refused("history_null", 100, "h or v");
     refused("fit_nan", 1, "current (A)");
     refused("fit_zero_len", 101, "n");
+    // The armature detector by hand: peak 1000, valley 880 at sample 5 (the library's own
+    // hand-made case in tests/armature_detect.rs), across two calls.
+    ok("dip_pending", 0.0);
+    ok("dip_moved", 120.0);
+    ok("dip_at", 5.0);
+    ok("dip_too_few", 4.0);
+    refused("dip_bad_polarity", 102, "polarity");
+    refused("dip_null_state", 100, "cfg or state");
+    refused("dip_zero_len", 101, "n");
 }

@@ -74,5 +74,14 @@ int kg_c_selftest(float *out, int max) {
     PUT(kg_fit_decay(s, 8, 1e-4f, &f).code);
     PUT(f.tau_s);
     PUT(kg_fit_decay(0, 8, 1e-4f, &f).code);
+
+    kg_dip_config dc = {0, 11, 11, 20, 12, 4096};
+    kg_dip_state ds = {0, 0, 0, 0, 0, 0, 0};
+    kg_motion mo;
+    const uint16_t adc[7] = {0, 400, 800, 1000, 900, 880, 892};
+    PUT(kg_dip_push(&dc, &ds, adc, 7, 0, &mo).code);
+    PUT(mo.kind);
+    PUT(mo.dip);
+    PUT(kg_dip_push(&dc, 0, adc, 7, 0, &mo).code);
     return n;
 }

@@ -96,6 +96,27 @@ pub enum Motion {
     Unclear(Unclear),
 }
 
+/// A detector's progress as plain numbers, for a caller that keeps it across calls outside
+/// Rust (the C interface): see [`DipDetector::progress`] and [`DipDetector::resume`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct DipProgress {
+    /// Samples taken.
+    pub n: u32,
+    /// The first sample (mirrored for a release), counts.
+    pub first: u16,
+    /// The running maximum, counts.
+    pub top: u16,
+    /// The running minimum after the peak, counts.
+    pub bottom: u16,
+    /// Where the minimum was.
+    pub bottom_at: u32,
+    /// Sub-threshold turns seen.
+    pub wiggles: u8,
+    /// Past a confirmed peak.
+    pub falling: bool,
+}
+
 /// The detector: feed samples, read the verdict.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
@@ -131,6 +152,35 @@ impl DipDetector {
                 None
             },
         }
+    }
+
+    /// Its progress (while no verdict is given), to keep outside Rust.
+    pub fn progress(&self) -> DipProgress {
+        DipProgress {
+            n: self.n,
+            first: self.first,
+            top: self.top,
+            bottom: self.bottom,
+            bottom_at: self.bottom_at,
+            wiggles: self.wiggles,
+            falling: self.falling,
+        }
+    }
+
+    /// A detector with `cfg` that goes on from `p` (no verdict yet). Any numbers are safe: the
+    /// detector only compares them.
+    pub const fn resume(cfg: DipConfig, p: DipProgress) -> Self {
+        let mut d = DipDetector::new(cfg);
+        if d.verdict.is_none() {
+            d.n = p.n;
+            d.first = p.first;
+            d.top = p.top;
+            d.bottom = p.bottom;
+            d.bottom_at = p.bottom_at;
+            d.wiggles = p.wiggles;
+            d.falling = p.falling;
+        }
+        d
     }
 
     /// Starts again for the next switching.

@@ -75,5 +75,23 @@ int main(void) {
     samples[3] = NAN;
     CALL("fit_nan", kg_fit_decay(samples, 8, 1e-4f, &f), 0);
     CALL("fit_zero_len", kg_fit_decay(samples, 0, 1e-4f, &f), 0);
+
+    /* The armature detector: a rise to 1000, a dip to 880, the climb; in two half-buffers. */
+    kg_dip_config dc = {0, 11, 11, 20, 12, 4096};
+    kg_dip_state ds;
+    memset(&ds, 0, sizeof ds);
+    kg_motion mo;
+    uint16_t first_half[3] = {0, 400, 800};
+    uint16_t second_half[4] = {1000, 900, 880, 892};
+    CALL("dip_pending", kg_dip_push(&dc, &ds, first_half, 3, 0, &mo), mo.kind);
+    CALL("dip_moved", kg_dip_push(&dc, &ds, second_half, 4, 0, &mo), mo.dip);
+    CALL("dip_at", kg_dip_push(&dc, &ds, second_half, 1, 0, &mo), mo.at);
+    memset(&ds, 0, sizeof ds);
+    CALL("dip_too_few", kg_dip_push(&dc, &ds, first_half, 3, 1, &mo), mo.why);
+    kg_dip_config bad_pol = dc;
+    bad_pol.polarity = 7;
+    CALL("dip_bad_polarity", kg_dip_push(&bad_pol, &ds, first_half, 3, 0, &mo), 0);
+    CALL("dip_null_state", kg_dip_push(&dc, NULL, first_half, 3, 0, &mo), 0);
+    CALL("dip_zero_len", kg_dip_push(&dc, &ds, first_half, 0, 0, &mo), 0);
     return 0;
 }

@@ -204,6 +204,37 @@ int main(int argc, char **argv) {
             check("kg_fit_decay", s, out, s.code == 0 ? 2 : 0);
         }
     }
+    /* The armature detector: random thresholds, a random progress, random samples. */
+    for (k = 0; k < n; k++) {
+        kg_dip_config dc;
+        kg_dip_state ds;
+        kg_motion mo;
+        uint16_t adc[64];
+        kg_status s;
+        float out[1] = {0.0f};
+        size_t i, len;
+        dc.polarity = (uint8_t)(next() % 3u);
+        dc.rise = (uint16_t)next();
+        dc.hysteresis = (uint16_t)(next() % 64u);
+        dc.min_dip = (uint16_t)(next() % 128u);
+        dc.window = (uint32_t)(next() % 200u);
+        dc.full_scale = (uint16_t)next();
+        ds.n = (uint32_t)next();
+        ds.first = (uint16_t)next();
+        ds.top = (uint16_t)next();
+        ds.bottom = (uint16_t)next();
+        ds.bottom_at = (uint32_t)next();
+        ds.wiggles = (uint8_t)next();
+        ds.falling = (uint8_t)next();
+        for (i = 0; i < 64; i++) adc[i] = (uint16_t)next();
+        len = (size_t)(next() % 66u);
+        s = kg_dip_push(MAYBE(&dc), MAYBE(&ds), MAYBE(adc), len, (uint8_t)(next() % 2u), MAYBE(&mo));
+        check("kg_dip_push", s, out, 0);
+        if (s.code == 0 && (mo.kind > 3u || (mo.kind == 3u && (mo.why < 1u || mo.why > 5u)))) {
+            problems++;
+            fprintf(stderr, "kg_dip_push: motion %u why %u\n", (unsigned)mo.kind, (unsigned)mo.why);
+        }
+    }
     printf("sweep: %lu calls, %lu refusals, %lu problems\n", calls, refusals, problems);
     return problems == 0u ? 0 : 1;
 }
