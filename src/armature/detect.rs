@@ -27,7 +27,8 @@
 //! smallest sampled dip over the tolerances less 2n: then a moving armature is always seen
 //! (if the climb after the valley also exceeds `hysteresis` + 2n within the window).
 //!
-//! Work: constant per sample (a dozen comparisons); memory: this struct (36 bytes).
+//! Work: constant per sample (a dozen comparisons); memory: this struct (40 bytes on a 64-bit
+//! host).
 
 /// Sub-threshold wiggles (a confirmed peak and valley with a dip below `min_dip`) tolerated
 /// before the signal is called too noisy.

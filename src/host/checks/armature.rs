@@ -188,12 +188,22 @@ fn detectable(
 ) -> Result<(), crate::Error> {
     let adc = &a.adc;
     let dip_counts = w.sampled_dip_min * adc.counts_per_amp;
+    // The least gain that sees the smallest sampled dip at this rate: 4·(n + 1) + 1 counts.
+    let need = 4 * (u32::from(adc.noise_counts) + 1) + 1;
+    let least_gain = if w.sampled_dip_min > 0.0 {
+        format!(
+            "; the least gain that sees it at this rate and noise: {:.0} counts/A",
+            need as f32 / w.sampled_dip_min
+        )
+    } else {
+        String::new()
+    };
     match detector_for(w, adc)? {
         Ok(cfg) => {
             out.checks.push(
                 Check::worded(&d.name, "armature_detectable", "armature motion seen by the ADC", Status::Pass, "detectable", Corner::Stated("every corner".into()))
                     .noted(format!(
-                        "the smallest dip as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts; with ±{} counts of noise the detector confirms a turn {} counts deep and calls a dip of {} counts motion; a stuck armature's plain rise never turns that far; verdict within {} samples (kickguard::armature::detect)",
+                        "the smallest dip as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts; with ±{} counts of noise the detector confirms a turn {} counts deep and calls a dip of {} counts motion; a stuck armature's plain rise never turns that far; verdict within {} samples (kickguard::armature::detect){least_gain}",
                         adc.rate.value(), w.sampled_dip_min * 1e3, dip_counts, adc.noise_counts, cfg.hysteresis, cfg.min_dip, cfg.window
                     )),
             );
@@ -211,7 +221,7 @@ fn detectable(
             let reason = match why {
                 NotDetectable::DoesNotPullIn => String::from("some corner does not pull in (see armature_pull_in)"),
                 NotDetectable::Saturates => format!("the largest current, {:.0} mA, reaches the ADC's full scale", w.current_max * 1e3),
-                NotDetectable::DipTooSmall => format!("the smallest sampled dip is {:.0} counts; with ±{} counts of noise it needs {} (more gain, a faster ADC, less noise)", dip_counts, adc.noise_counts, 6 * (u32::from(adc.noise_counts) + 1) + 1),
+                NotDetectable::DipTooSmall => format!("the smallest sampled dip is {:.0} counts; with ±{} counts of noise it needs {need} (more gain, a faster ADC, less noise){least_gain}", dip_counts, adc.noise_counts),
                 NotDetectable::NoClimb => String::from("some corner's current does not climb far enough after its valley to confirm it"),
             };
             out.checks.push(
