@@ -15,8 +15,9 @@
 //!   against those windows (no floating point, so it runs in an interrupt on a core without an
 //!   FPU); [`history`] requires N consecutive faults before the firmware acts; [`fit`] estimates
 //!   τ and the clamp voltage from a buffer of current samples; [`learn`] learns one unit's own
-//!   healthy window at fixed conditions, [`unit`] one unit's inductance wherever it runs; [`hal`] times the flyback with an
-//!   output pin, a sense input and a delay (`embedded-hal` 1.0).
+//!   healthy window at fixed conditions, [`mod@unit`] one unit's inductance wherever it runs;
+//!   [`hal`] times the flyback with an output pin, a sense input and a delay (`embedded-hal`
+//!   1.0).
 //!
 //! Fault models (each replaces one part of the healthy circuit, all else equal):
 //!

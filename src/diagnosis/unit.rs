@@ -16,7 +16,7 @@
 //!
 //! # Configuration time ([`Design::unit_table`])
 //!
-//! The cells are those of [`compensate`](super::compensate) (bins of the measured supply and
+//! The cells are those of [`compensate`] (bins of the measured supply and
 //! on-current, widened by the readings' accuracy and resolution). For each cell and each
 //! breakdown segment, the window a **nominal-L** healthy unit reads there is found over the
 //! cell's supply, on-current and resistance, the clamp parts' temperatures and the segment's
