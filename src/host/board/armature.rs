@@ -11,6 +11,7 @@ use crate::host::file::{self, Reader};
 use crate::host::HostError;
 use crate::units::{Henries, Hertz};
 use std::format;
+use std::string::String;
 
 /// Converts a driver's armature section.
 ///
@@ -28,6 +29,40 @@ pub fn convert(
         return Ok(None);
     };
     let at = |x: &str| format!("{field}.armature.{x}");
+    // Read in the file's order, so the first error named is the first field at fault.
+    let nominal = mechanics(r, &at, a, || gap_law(r, &at, a, coil))?;
+    let pct = range(0.0, 0.5, "0 … 50 %");
+    let tol = r
+        .oq(&a.tolerance, &at("tolerance"), Unit::Percent, pct)?
+        .unwrap_or(0.0);
+    let open = nominal.inductance.open.value();
+    let open_tol = open_tolerance(r, &at, a, open, coil, l_tol)?;
+    let adc = adc(r, &at, a)?;
+    nominal.validate().map_err(|e| r.model(&at(""), e))?;
+    Ok(Some(ArmatureBoard {
+        nominal,
+        tol: Tolerances {
+            mass: tol,
+            stroke: tol,
+            preload: tol,
+            spring: tol,
+            load: tol,
+            damping: tol,
+            l_seat: l_tol,
+            l_open: open_tol,
+            g0: tol,
+        },
+        adc,
+    }))
+}
+
+/// The moving parts: mass, stroke, spring, load and damping, then the gap law from `law`.
+fn mechanics(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    a: &file::ArmatureSpec,
+    law: impl FnOnce() -> Result<GapInductance, HostError>,
+) -> Result<Armature, HostError> {
     let newton = range(0.0, 1e5, "0 … 100 kN");
     let mass = r.q(
         &a.mass,
@@ -69,6 +104,24 @@ pub fn convert(
             range(0.0, 1e6, "0 … 1 MN·s/m"),
         )?
         .unwrap_or(0.0);
+    Ok(Armature {
+        mass_kg: mass,
+        stroke_m: stroke,
+        preload_n: preload,
+        spring_n_per_m: rate,
+        load_n: load,
+        damping_n_s_per_m: damping,
+        inductance: law()?,
+    })
+}
+
+/// The gap law: L_seat the coil's inductance, L_open (below it) and g₀ from the section.
+fn gap_law(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    a: &file::ArmatureSpec,
+    coil: &Coil,
+) -> Result<GapInductance, HostError> {
     let open = r.q(
         &a.open_inductance,
         &at("open_inductance"),
@@ -87,16 +140,29 @@ pub fn convert(
         Unit::Metre,
         range(1e-7, 0.1, "0.1 µm … 100 mm"),
     )?;
-    let pct = range(0.0, 0.5, "0 … 50 %");
-    let tol = r
-        .oq(&a.tolerance, &at("tolerance"), Unit::Percent, pct)?
-        .unwrap_or(0.0);
+    Ok(GapInductance {
+        seat: coil.inductance(),
+        open: Henries::new(open).map_err(|e| r.model(&at("open_inductance"), e))?,
+        g0_m: g0,
+    })
+}
+
+/// The open inductance's tolerance (default the coil's): the open and seated inductances may
+/// not meet over their tolerances.
+fn open_tolerance(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    a: &file::ArmatureSpec,
+    open: f32,
+    coil: &Coil,
+    l_tol: f32,
+) -> Result<f32, HostError> {
     let open_tol = r
         .oq(
             &a.open_inductance_tolerance,
             &at("open_inductance_tolerance"),
             Unit::Percent,
-            pct,
+            range(0.0, 0.5, "0 … 50 %"),
         )?
         .unwrap_or(l_tol);
     if !(open * (1.0 + open_tol) < coil.inductance().value() * (1.0 - l_tol)) {
@@ -105,7 +171,16 @@ pub fn convert(
             "the open and seated inductances overlap over their tolerances: the highest open L must stay below the lowest seated L",
         ));
     }
-    let adc_rate = r.q(
+    Ok(open_tol)
+}
+
+/// The ADC on the coil current: rate, gain, full scale and noise (whole counts).
+fn adc(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    a: &file::ArmatureSpec,
+) -> Result<Adc, HostError> {
+    let rate = r.q(
         &a.adc_rate,
         &at("adc_rate"),
         Unit::Hertz,
@@ -129,44 +204,10 @@ pub fn convert(
         }
         Ok(x as u16)
     };
-    let full_scale = count(&a.adc_full_scale, "adc_full_scale", 2.0)?;
-    let noise = count(&a.adc_noise, "adc_noise", 0.0)?;
-    let model = |name: &str| {
-        let name = at(name);
-        move |e: crate::Error| r.model(&name, e)
-    };
-    let nominal = Armature {
-        mass_kg: mass,
-        stroke_m: stroke,
-        preload_n: preload,
-        spring_n_per_m: rate,
-        load_n: load,
-        damping_n_s_per_m: damping,
-        inductance: GapInductance {
-            seat: coil.inductance(),
-            open: Henries::new(open).map_err(model("open_inductance"))?,
-            g0_m: g0,
-        },
-    };
-    nominal.validate().map_err(model(""))?;
-    Ok(Some(ArmatureBoard {
-        nominal,
-        tol: Tolerances {
-            mass: tol,
-            stroke: tol,
-            preload: tol,
-            spring: tol,
-            load: tol,
-            damping: tol,
-            l_seat: l_tol,
-            l_open: open_tol,
-            g0: tol,
-        },
-        adc: Adc {
-            rate: Hertz::new(adc_rate).map_err(model("adc_rate"))?,
-            counts_per_amp: cpa,
-            full_scale,
-            noise_counts: noise,
-        },
-    }))
+    Ok(Adc {
+        rate: Hertz::new(rate).map_err(|e| r.model(&at("adc_rate"), e))?,
+        counts_per_amp: cpa,
+        full_scale: count(&a.adc_full_scale, "adc_full_scale", 2.0)?,
+        noise_counts: count(&a.adc_noise, "adc_noise", 0.0)?,
+    })
 }
