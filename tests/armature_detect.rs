@@ -16,6 +16,7 @@
 mod common;
 
 use common::armature::{perturbed, pull_in_waveform, specs, Spec};
+use common::Rng;
 use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
 use kickguard::armature::motion::pull_in;
 use kickguard::armature::sizing::{
@@ -68,22 +69,6 @@ fn adc(s: &Spec, rate: f64) -> Adc {
         counts_per_amp: (0.8 * 4096.0 / i_max) as f32,
         full_scale: 4096,
         noise_counts: NOISE,
-    }
-}
-
-/// SplitMix64 (Steele, Lea & Flood 2014) and a Box–Muller normal.
-struct Rng(u64);
-impl Rng {
-    fn unit(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
-    }
-    fn normal(&mut self) -> f64 {
-        let (a, b) = (self.unit().max(1e-300), self.unit());
-        (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
     }
 }
 

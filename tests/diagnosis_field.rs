@@ -24,7 +24,7 @@
 
 mod common;
 
-use common::v64;
+use common::{v64, Rng};
 use kickguard::breakdown::{Breakdown, BreakdownLaw};
 use kickguard::clamp::{ActiveClamp, Clamp, Side, SwitchedFreewheel};
 use kickguard::coil::Coil;
@@ -448,18 +448,6 @@ fn reading(s: &Spec, c: &Circuit, m: &Meas) -> f64 {
 enum Meas {
     Comparator(f64),
     Current(f64, f64),
-}
-
-/// A small fixed-seed generator (SplitMix64, Steele, Lea & Flood 2014).
-struct Rng(u64);
-impl Rng {
-    fn unit(&mut self) -> f64 {
-        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
-        let mut z = self.0;
-        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
-        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
-        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
-    }
 }
 
 /// A random circuit of `cond` inside the tolerances (a random unit at random conditions); None

@@ -99,6 +99,27 @@ pub fn simpson_decay(l: f64, i0: f64, i1: f64, n: usize, g: &dyn Fn(f64) -> f64)
 
 pub mod spice;
 
+/// A small fixed-seed generator (SplitMix64, Steele, Lea & Flood 2014), shared by the field
+/// tests so their draws are reproducible.
+pub struct Rng(pub u64);
+
+impl Rng {
+    /// A uniform number in [0, 1).
+    pub fn unit(&mut self) -> f64 {
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        ((z ^ (z >> 31)) >> 11) as f64 / (1u64 << 53) as f64
+    }
+
+    /// A standard normal number (Box–Muller).
+    pub fn normal(&mut self) -> f64 {
+        let (a, b) = (self.unit().max(1e-300), self.unit());
+        (-2.0 * a.ln()).sqrt() * (2.0 * std::f64::consts::PI * b).cos()
+    }
+}
+
 /// Compiles `use.c` in `dir` to `use.o` with the machine's C compiler (`cc`) under `std`
 /// (e.g. `-std=c99`), pedantic with every warning an error, plus the `extra` flags.
 pub fn cc_strict(
