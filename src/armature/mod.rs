@@ -26,10 +26,13 @@
 //!
 //! The state (λ, x, v) is integrated by [`motion`] with an embedded Runge–Kutta pair and event
 //! location (the armature starting to move, reaching a stop, the current's turning points);
-//! [`detect`] finds the dip or the bump in ADC samples at run time, integer only.
+//! [`sizing`] and [`release_sizing`] search the corners of the tolerances at pull-in and at
+//! release and size the detector; [`detect`] finds the dip or the bump in ADC samples at run
+//! time, integer only.
 
 pub mod detect;
 pub mod motion;
+pub mod release_sizing;
 pub mod sizing;
 
 use crate::error::{self, Error, Reason};

@@ -100,11 +100,11 @@ pub struct Span {
 }
 
 impl Span {
-    const EMPTY: Span = Span {
+    pub(super) const EMPTY: Span = Span {
         lo: f32::INFINITY,
         hi: f32::NEG_INFINITY,
     };
-    fn add(&mut self, x: f32) {
+    pub(super) fn add(&mut self, x: f32) {
         self.lo = self.lo.min(x);
         self.hi = self.hi.max(x);
     }
@@ -135,10 +135,10 @@ pub struct PullInWindow {
 }
 
 /// The four instants around the turning points a corner's second run lands on.
-struct Probes {
-    at: [f32; 4],
-    got: [f32; 4],
-    n: usize,
+pub(super) struct Probes {
+    pub(super) at: [f32; 4],
+    pub(super) got: [f32; 4],
+    pub(super) n: usize,
 }
 
 impl Sink for Probes {
@@ -154,7 +154,7 @@ impl Sink for Probes {
 }
 
 /// No samples.
-struct Nothing;
+pub(super) struct Nothing;
 
 impl Sink for Nothing {
     fn next_due(&self) -> Option<f32> {
@@ -163,8 +163,8 @@ impl Sink for Nothing {
     fn put(&mut self, _: f32) {}
 }
 
-/// The armature of corner `k`.
-fn corner(nominal: &Armature, tol: &Tolerances, k: u32) -> Result<Armature, Error> {
+/// The armature of corner `k` (bits 0 … 8: the mechanical axes in the module docs' order).
+pub(super) fn corner(nominal: &Armature, tol: &Tolerances, k: u32) -> Result<Armature, Error> {
     let f = |bit: u32, t: f32| {
         if k & (1 << bit) == 0 {
             1.0 - t
@@ -185,7 +185,7 @@ fn corner(nominal: &Armature, tol: &Tolerances, k: u32) -> Result<Armature, Erro
     Ok(a)
 }
 
-fn check(tol: &Tolerances, drive: &DriveRange) -> Result<(), Error> {
+pub(super) fn check_tolerances(tol: &Tolerances) -> Result<(), Error> {
     for (name, t) in [
         ("mass tolerance", tol.mass),
         ("stroke tolerance", tol.stroke),
@@ -199,6 +199,11 @@ fn check(tol: &Tolerances, drive: &DriveRange) -> Result<(), Error> {
     ] {
         error::within(name, t, 0.0, 0.5)?;
     }
+    Ok(())
+}
+
+fn check(tol: &Tolerances, drive: &DriveRange) -> Result<(), Error> {
+    check_tolerances(tol)?;
     if !(drive.supply_min <= drive.supply_max) {
         return Err(Error::new("supply range", Reason::NotIncreasing));
     }
@@ -315,13 +320,15 @@ fn peak_of(p: &PullIn) -> f32 {
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub enum NotDetectable {
-    /// Some corner does not pull in within the run: nothing to detect there.
+    /// Some corner does not pull in (or, for a release, does not open) within the run:
+    /// nothing to detect there.
     DoesNotPullIn,
     /// The largest current reaches full scale.
     Saturates,
     /// The smallest sampled dip, less twice the noise, is below the hysteresis.
     DipTooSmall,
-    /// Some corner's current never climbs far enough above its valley to confirm it.
+    /// Some corner's current never climbs far enough above its valley to confirm it (for a
+    /// release: never falls far enough below the bump's top).
     NoClimb,
 }
 
@@ -335,20 +342,50 @@ pub fn detector_for(
     w: &PullInWindow,
     adc: &Adc,
 ) -> Result<Result<DipConfig, NotDetectable>, Error> {
+    thresholds(
+        Polarity::Rising,
+        &Turns {
+            all_moved: w.not_seated.is_none(),
+            current_max: w.current_max,
+            sampled_min: w.sampled_dip_min,
+            confirmed_by: w.confirmed_by,
+        },
+        adc,
+    )
+}
+
+/// What the thresholds need of a window, pull-in or release.
+pub(super) struct Turns {
+    /// Every corner moved (seated, or opened).
+    pub(super) all_moved: bool,
+    /// The largest current, A.
+    pub(super) current_max: f32,
+    /// The smallest dip (or bump) as sampled, A.
+    pub(super) sampled_min: f32,
+    /// When every corner's turn is confirmed, s (None: some never is).
+    pub(super) confirmed_by: Option<f32>,
+}
+
+/// The detector's thresholds for `adc` (module docs), or why the motion is not detectable.
+pub(super) fn thresholds(
+    polarity: Polarity,
+    t: &Turns,
+    adc: &Adc,
+) -> Result<Result<DipConfig, NotDetectable>, Error> {
     let cpa = error::positive("counts per amp", adc.counts_per_amp)?;
     let n_e = u32::from(adc.noise_counts) + 1;
     let hyst = n_e.saturating_mul(2).saturating_add(1);
-    if w.not_seated.is_some() {
+    if !t.all_moved {
         return Ok(Err(NotDetectable::DoesNotPullIn));
     }
-    if !(w.current_max * cpa < f32::from(adc.full_scale)) {
+    if !(t.current_max * cpa < f32::from(adc.full_scale)) {
         return Ok(Err(NotDetectable::Saturates));
     }
-    let dip_counts = libm::floorf(w.sampled_dip_min * cpa);
+    let dip_counts = libm::floorf(t.sampled_min * cpa);
     if !(dip_counts - 2.0 * n_e as f32 >= hyst as f32) {
         return Ok(Err(NotDetectable::DipTooSmall));
     }
-    let Some(by) = w.confirmed_by else {
+    let Some(by) = t.confirmed_by else {
         return Ok(Err(NotDetectable::NoClimb));
     };
     let window = libm::ceilf(by * adc.rate.value()) + 1.0;
@@ -357,7 +394,7 @@ pub fn detector_for(
     }
     let hyst16 = u16::try_from(hyst).map_err(|_| Error::new("noise", Reason::TooLarge))?;
     Ok(Ok(DipConfig {
-        polarity: Polarity::Rising,
+        polarity,
         rise: hyst16,
         hysteresis: hyst16,
         min_dip: hyst16,

@@ -566,6 +566,7 @@ fn unit_learner(
 fn armature() -> Result<(), Error> {
     use kickguard::armature::detect::{DipConfig, DipDetector, Polarity};
     use kickguard::armature::motion::{pull_in, release, Run};
+    use kickguard::armature::release_sizing::{release_detector_for, release_window};
     use kickguard::armature::sizing::{
         confirm_amps, detector_for, pull_in_window, run_for, Adc, DriveRange, Tolerances,
     };
@@ -638,6 +639,14 @@ fn armature() -> Result<(), Error> {
             confirm_amps(&adc)?,
         )?;
         bb(detector_for(&w, &adc)?.is_ok());
+        let rw = release_window(
+            &arm,
+            &tol,
+            &[off],
+            &run_for(&adc, Seconds::new(bb(0.2))?)?,
+            confirm_amps(&adc)?,
+        )?;
+        bb(release_detector_for(&rw, &adc)?.is_ok());
     }
     let mut d = DipDetector::new(DipConfig {
         polarity: if bb(true) {
