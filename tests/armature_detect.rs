@@ -276,4 +276,34 @@ fn detector_verdicts_by_hand() {
     );
     let fall: Vec<u16> = (0..12).map(|k| 2000 - 150 * k).collect();
     assert_eq!(verdict(rel, &fall), Motion::NotMoved);
+    // The verdicts for the history: a plain rise is a stuck-open armature, a plain fall a
+    // stuck-closed one; three in a row confirm it, a motion in between restarts the count.
+    use kickguard::diagnosis::history::VerdictHistory;
+    use kickguard::diagnosis::{Condition, Verdict};
+    let open = Verdict::Fault(Condition::ArmatureStuckOpen);
+    let closed = Verdict::Fault(Condition::ArmatureStuckClosed);
+    assert_eq!(
+        verdict(cfg, &plain).as_verdict(Polarity::Rising),
+        Some(open)
+    );
+    assert_eq!(
+        verdict(rel, &fall).as_verdict(Polarity::Falling),
+        Some(closed)
+    );
+    assert_eq!(
+        verdict(cfg, &moved).as_verdict(Polarity::Rising),
+        Some(Verdict::Healthy)
+    );
+    assert_eq!(verdict(cfg, &[7; 12]).as_verdict(Polarity::Rising), None);
+    let mut h: VerdictHistory<8> = VerdictHistory::new();
+    for v in [open, open, Verdict::Healthy, open, open] {
+        h.push(v);
+    }
+    assert!(!h.confirmed(open, 3));
+    h.push(open);
+    assert!(h.confirmed(open, 3));
+    assert_eq!(
+        Condition::from_code(7),
+        Some(Condition::ArmatureStuckClosed)
+    );
 }

@@ -89,6 +89,17 @@
 #define KG_CONDITION_COIL_TOO_HOT 5
 
 /**
+ * Condition code: the armature did not move at switch-on (the dip detector's "not moved").
+ */
+#define KG_CONDITION_ARMATURE_STUCK_OPEN 6
+
+/**
+ * Condition code: the armature did not leave its seat at switch-off (the release detector's
+ * "not moved").
+ */
+#define KG_CONDITION_ARMATURE_STUCK_CLOSED 7
+
+/**
  * Status code: a value is NaN or infinite.
  */
 #define KG_REASON_NOT_FINITE 1

@@ -69,6 +69,11 @@ pub const KG_CONDITION_COIL_OPEN: u8 = 3;
 pub const KG_CONDITION_SHORTED_TURNS: u8 = 4;
 /// Condition code: the coil hotter than its design range.
 pub const KG_CONDITION_COIL_TOO_HOT: u8 = 5;
+/// Condition code: the armature did not move at switch-on (the dip detector's "not moved").
+pub const KG_CONDITION_ARMATURE_STUCK_OPEN: u8 = 6;
+/// Condition code: the armature did not leave its seat at switch-off (the release detector's
+/// "not moved").
+pub const KG_CONDITION_ARMATURE_STUCK_CLOSED: u8 = 7;
 /// Status code: a value is NaN or infinite.
 pub const KG_REASON_NOT_FINITE: i32 = 1;
 /// Status code: a value is zero or negative where it must be positive.
@@ -106,6 +111,8 @@ const _: () = {
     assert!(KG_CONDITION_COIL_OPEN as u32 == Condition::CoilOpen.code());
     assert!(KG_CONDITION_SHORTED_TURNS as u32 == Condition::ShortedTurns.code());
     assert!(KG_CONDITION_COIL_TOO_HOT as u32 == Condition::CoilTooHot.code());
+    assert!(KG_CONDITION_ARMATURE_STUCK_OPEN as u32 == Condition::ArmatureStuckOpen.code());
+    assert!(KG_CONDITION_ARMATURE_STUCK_CLOSED as u32 == Condition::ArmatureStuckClosed.code());
     assert!(KG_REASON_NOT_FINITE as u8 == R::NotFinite.code());
     assert!(KG_REASON_NOT_POSITIVE as u8 == R::NotPositive.code());
     assert!(KG_REASON_NEGATIVE as u8 == R::Negative.code());

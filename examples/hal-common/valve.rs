@@ -58,7 +58,8 @@ pub enum Action {
     Carry,
     /// The plunger did not move: stop the pump of this zone and report.
     StopPump,
-    /// The clamp path is open, confirmed `FAULT_CONFIRMATIONS` times: disable the driver.
+    /// The clamp path is open, or the plunger stayed shut, confirmed `FAULT_CONFIRMATIONS`
+    /// times in a row: disable the driver.
     DisableValve,
     /// The flyback did not end within the decay wait, or a pin failed: report, retry once.
     Report,
@@ -78,6 +79,9 @@ pub struct Valve<G, S, C, A> {
     pub adc: A,
     windows: Windows,
     history: VerdictHistory<8>,
+    /// The armature's verdicts, kept apart from the flyback's so that each history's
+    /// confirmations count its own readings in a row.
+    armature: VerdictHistory<8>,
 }
 
 impl<G: OutputPin, S: InputPin, C: TickCounter, A: CoilAdc> Valve<G, S, C, A> {
@@ -90,6 +94,7 @@ impl<G: OutputPin, S: InputPin, C: TickCounter, A: CoilAdc> Valve<G, S, C, A> {
             adc,
             windows: Windows::from_rows(&config::valve::DIAG_1_WINDOWS),
             history: VerdictHistory::new(),
+            armature: VerdictHistory::new(),
         }
     }
 
@@ -122,13 +127,20 @@ impl<G: OutputPin, S: InputPin, C: TickCounter, A: CoilAdc> Valve<G, S, C, A> {
         if !self.wait_until(off_at, config::valve::REENERGISE_WAIT_TICKS * US_PER_TICK) {
             return Action::TimerStopped;
         }
+        if let Some(v) = motion.as_verdict(Polarity::Rising) {
+            self.armature.push(v);
+        }
         let needed = config::valve::FAULT_CONFIRMATIONS as usize;
+        let stuck = Verdict::Fault(Condition::ArmatureStuckOpen);
         if self
             .history
             .confirmed(Verdict::Fault(Condition::ClampOpen), needed)
+            || self.armature.confirmed(stuck, needed)
         {
+            // An open clamp, or a plunger that stayed shut switch-on after switch-on.
             Action::DisableValve
         } else if motion == Motion::NotMoved {
+            // At once, before any confirmation: the pump must not push against a shut valve.
             Action::StopPump
         } else {
             Action::Carry

@@ -30,6 +30,8 @@
 //! Work: constant per sample (a dozen comparisons); memory: this struct (40 bytes on a 64-bit
 //! host).
 
+use crate::diagnosis::{Condition, Verdict};
+
 /// Sub-threshold wiggles (a confirmed peak and valley with a dip below `min_dip`) tolerated
 /// before the signal is called too noisy.
 pub const MAX_WIGGLES: u8 = 2;
@@ -95,6 +97,35 @@ pub enum Motion {
     NotMoved,
     /// No verdict can be trusted.
     Unclear(Unclear),
+}
+
+impl Motion {
+    /// The diagnosis verdict of this motion, for the verdict history and its confirmations
+    /// ([`crate::diagnosis::history::VerdictHistory`]): moved → healthy; not moved → the
+    /// armature stuck open (at pull-in, [`Polarity::Rising`]) or stuck closed (at release,
+    /// [`Polarity::Falling`]); unclear → None (no verdict to keep: retry, then report).
+    ///
+    /// ```
+    /// use kickguard::armature::detect::{Motion, Polarity};
+    /// use kickguard::diagnosis::{Condition, Verdict};
+    /// assert_eq!(
+    ///     Motion::NotMoved.as_verdict(Polarity::Rising),
+    ///     Some(Verdict::Fault(Condition::ArmatureStuckOpen))
+    /// );
+    /// assert_eq!(Motion::Moved { at: 40, dip: 120 }.as_verdict(Polarity::Falling), Some(Verdict::Healthy));
+    /// ```
+    pub const fn as_verdict(self, polarity: Polarity) -> Option<Verdict> {
+        match (self, polarity) {
+            (Motion::Moved { .. }, _) => Some(Verdict::Healthy),
+            (Motion::NotMoved, Polarity::Rising) => {
+                Some(Verdict::Fault(Condition::ArmatureStuckOpen))
+            }
+            (Motion::NotMoved, Polarity::Falling) => {
+                Some(Verdict::Fault(Condition::ArmatureStuckClosed))
+            }
+            (Motion::Unclear(_), _) => None,
+        }
+    }
 }
 
 /// A detector's progress as plain numbers, for a caller that keeps it across calls outside

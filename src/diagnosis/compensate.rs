@@ -375,7 +375,11 @@ impl Design {
                 Clamp::SwitchedFreewheel(s) => (Clamp::FreewheelDiode(s.diode), 1.0, false),
                 _ => return Ok(None),
             },
-            Condition::CoilOpen => return Ok(None),
+            // No decay (coil open); the armature's conditions are judged from the coil current
+            // by the armature's detectors, not by flyback windows.
+            Condition::CoilOpen | Condition::ArmatureStuckOpen | Condition::ArmatureStuckClosed => {
+                return Ok(None)
+            }
         };
         if !(i.1 > 0.0 && i.0 <= i.1) {
             return Ok(None);

@@ -66,11 +66,20 @@ pub enum Condition {
     ShortedTurns,
     /// The winding is hotter than allowed.
     CoilTooHot,
+    /// The armature did not move at switch-on (a valve stuck shut by dirt, ice or missing
+    /// pressure; a relay that does not pull in): seen by the armature's dip detector
+    /// ([`crate::armature::detect`], [`crate::armature::detect::Motion::verdict`]), not by the
+    /// flyback windows.
+    ArmatureStuckOpen,
+    /// The armature did not leave its seat at switch-off (a welded contact, residual
+    /// magnetism, a jammed plunger): seen by the release detector, not by the flyback windows.
+    ArmatureStuckClosed,
 }
 
 impl Condition {
     /// The condition's code in generated tables (0 healthy, 1 clamp path open, 2 zener shorted,
-    /// 3 coil open, 4 shorted turns, 5 coil too hot).
+    /// 3 coil open, 4 shorted turns, 5 coil too hot, 6 armature stuck open, 7 armature stuck
+    /// closed).
     pub const fn code(self) -> u32 {
         match self {
             Condition::Healthy => 0,
@@ -79,6 +88,8 @@ impl Condition {
             Condition::CoilOpen => 3,
             Condition::ShortedTurns => 4,
             Condition::CoilTooHot => 5,
+            Condition::ArmatureStuckOpen => 6,
+            Condition::ArmatureStuckClosed => 7,
         }
     }
 
@@ -91,11 +102,14 @@ impl Condition {
             3 => Condition::CoilOpen,
             4 => Condition::ShortedTurns,
             5 => Condition::CoilTooHot,
+            6 => Condition::ArmatureStuckOpen,
+            7 => Condition::ArmatureStuckClosed,
             _ => return None,
         })
     }
 
-    /// Every condition, healthy first.
+    /// The conditions the flyback windows separate, healthy first (the armature's two are
+    /// judged by the armature's detectors: [`Condition::ARMATURE`]).
     pub const ALL: [Condition; 6] = [
         Condition::Healthy,
         Condition::ClampOpen,
@@ -104,4 +118,8 @@ impl Condition {
         Condition::ShortedTurns,
         Condition::CoilTooHot,
     ];
+
+    /// The armature's conditions, judged from the coil current by [`crate::armature::detect`].
+    pub const ARMATURE: [Condition; 2] =
+        [Condition::ArmatureStuckOpen, Condition::ArmatureStuckClosed];
 }

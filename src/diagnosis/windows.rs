@@ -297,7 +297,11 @@ impl Design {
                 }
                 _ => None,
             },
-            Condition::CoilOpen => None,
+            // No decay (coil open); the armature's conditions belong to the armature's
+            // detectors, not to the flyback windows.
+            Condition::CoilOpen | Condition::ArmatureStuckOpen | Condition::ArmatureStuckClosed => {
+                None
+            }
             Condition::ShortedTurns => Some((self.clamp, fl, fr, tmin, tmax, own_avalanche)),
             Condition::CoilTooHot => Some((
                 self.clamp,

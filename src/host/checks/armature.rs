@@ -41,7 +41,7 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
     pulls_in(board, d, &w, duration, out)?;
     hold_waits(board, d, &w, &drive, out);
     detectable(d, a, &w, out).map_err(fault)?;
-    Ok(())
+    super::armature_release::checks(board, run, a, out)
 }
 
 /// Supply range and coil resistance from the coldest winding at −tolerance to the hottest at
@@ -60,8 +60,18 @@ fn drive_range(run: &DriverRun) -> Result<DriveRange, crate::Error> {
     })
 }
 
+/// The nine mechanical axes of a corner index in words (bits 0 … 8).
+pub fn mechanical_words(k: u32) -> String {
+    axes_words(k, 9)
+}
+
 /// The axes of a corner index in words.
 fn corner_words(k: u32) -> String {
+    axes_words(k, 11)
+}
+
+/// The first `n` axes of a corner index in words.
+fn axes_words(k: u32, n: usize) -> String {
     const AXES: [(&str, &str, &str); 11] = [
         ("mass", "light", "heavy"),
         ("stroke", "short", "long"),
@@ -77,6 +87,7 @@ fn corner_words(k: u32) -> String {
     ];
     let parts: Vec<String> = AXES
         .iter()
+        .take(n)
         .enumerate()
         .map(|(b, (name, lo, hi))| format!("{name} {}", if k & (1 << b) == 0 { lo } else { hi }))
         .collect();

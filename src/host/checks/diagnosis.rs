@@ -39,6 +39,8 @@ pub fn condition_words(c: Condition) -> &'static str {
         Condition::CoilOpen => "coil open",
         Condition::ShortedTurns => "shorted turns",
         Condition::CoilTooHot => "coil too hot",
+        Condition::ArmatureStuckOpen => "armature stuck open",
+        Condition::ArmatureStuckClosed => "armature stuck closed",
     }
 }
 

@@ -8,6 +8,7 @@
 //! check's docs) and is verified by the Monte Carlo comparison of the report.
 
 pub mod armature;
+pub mod armature_release;
 pub mod diagnosis;
 pub mod energy;
 pub mod hold;
@@ -109,6 +110,7 @@ pub fn driver_checks(
     open_clamp::require_detection(run, proposal.as_ref(), &mut out);
     supply::checks(board, run, &mut out)?;
     armature::checks(board, run, &mut out)?;
+    propose::invisible(run, proposal.as_ref(), &mut out);
     Ok(out)
 }
 

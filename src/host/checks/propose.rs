@@ -233,6 +233,8 @@ fn remedy(c: Condition) -> &'static str {
         Condition::CoilOpen => "no on-current: read the coil current before switching off",
         Condition::ShortedTurns => "a decay too fast for the resistance the measured supply and on-current show: the compensated windows (kickguard::diagnosis::compensate)",
         Condition::CoilTooHot => "the on-current with the supply measured: V/I above the hottest healthy winding (kickguard::diagnosis::compensate::ResistanceLimit)",
+        Condition::ArmatureStuckOpen => "the armature's dip detector on the coil current at switch-on ([driver.armature], kickguard::armature::detect)",
+        Condition::ArmatureStuckClosed => "the armature's release detector on the coil current at switch-off ([driver.armature], kickguard::armature::detect with Polarity::Falling), where the clamp leaves a bump",
         Condition::Healthy => "",
     }
 }
@@ -257,35 +259,56 @@ pub fn checks(
         None
     };
     proposal_check(board, run, proposal.as_ref(), out);
-    let corner = || Corner::Stated("every corner".into());
-    let invisible: Vec<String> = out
-        .checks
-        .iter()
-        .filter(|c| {
-            c.subject == d.name && c.id.starts_with("diagnosis_") && c.status == Status::Warn
-        })
-        .filter_map(|c| {
-            Condition::ALL
-                .iter()
-                .find(|k| c.id == format!("diagnosis_{}", condition_words(**k).replace(' ', "_")))
-        })
-        .filter(|k| {
-            !(**k == Condition::ClampOpen && proposal.as_ref().is_some_and(|p| p.detectable))
-        })
-        .map(|k| format!("{}: {}", condition_words(*k), remedy(*k)))
-        .collect();
-    if !invisible.is_empty() {
-        out.checks.push(
-            Check::worded(
-                &d.name,
-                "diagnosis_invisible",
-                "diagnosis: what the measurements cannot see",
-                Status::Info,
-                &format!("{} fault(s)", invisible.len()),
-                corner(),
-            )
-            .noted(format!("and what would show it — {}", invisible.join("; "))),
-        );
-    }
     Ok(proposal)
+}
+
+/// "What the measurements cannot see": the faults the flyback windows leave invisible (their
+/// checks warn), less the open clamp where the proposal sees it, and the armature's two where
+/// no armature detector is emitted (no `[driver.armature]`, or its check not passed) — each
+/// with what would show it. Run after every other check of the driver.
+pub fn invisible(run: &DriverRun, proposal: Option<&Proposal>, out: &mut Outcome) {
+    let d = &run.d;
+    if d.diagnosis.is_none() {
+        return;
+    }
+    let of = |id: &str| {
+        out.checks
+            .iter()
+            .find(|c| c.subject == d.name && c.id == id)
+            .map(|c| c.status)
+    };
+    let windows = Condition::ALL.iter().filter(|k| {
+        let id = format!("diagnosis_{}", condition_words(**k).replace(' ', "_"));
+        of(&id) == Some(Status::Warn)
+            && !(**k == Condition::ClampOpen && proposal.is_some_and(|p| p.detectable))
+    });
+    let armature = [
+        (Condition::ArmatureStuckOpen, "armature_detectable"),
+        (
+            Condition::ArmatureStuckClosed,
+            "armature_release_detectable",
+        ),
+    ]
+    .into_iter()
+    .filter(|(_, id)| of(id) != Some(Status::Pass))
+    .map(|(k, _)| k);
+    let list: Vec<String> = windows
+        .copied()
+        .chain(armature)
+        .map(|k| format!("{}: {}", condition_words(k), remedy(k)))
+        .collect();
+    if list.is_empty() {
+        return;
+    }
+    out.checks.push(
+        Check::worded(
+            &d.name,
+            "diagnosis_invisible",
+            "diagnosis: what the measurements cannot see",
+            Status::Info,
+            &format!("{} fault(s)", list.len()),
+            Corner::Stated("every corner".into()),
+        )
+        .noted(format!("and what would show it — {}", list.join("; "))),
+    );
 }

@@ -108,7 +108,8 @@ fn fault_circuit(
             }
             _ => None,
         },
-        Condition::CoilOpen => None,
+        // No decay; the armature's conditions are not flyback windows' business.
+        Condition::CoilOpen | Condition::ArmatureStuckOpen | Condition::ArmatureStuckClosed => None,
         Condition::ShortedTurns => {
             let ((l_lo, l_hi), fr) =
                 cx.d.diagnosis
