@@ -59,6 +59,9 @@ pub struct ReleaseWindow {
     /// The smallest bump as sampled at the run's sample period, A (0 where a corner shows no
     /// bump, or its valley and top are within one sample).
     pub sampled_bump_min: f32,
+    /// The shortest time from the valley to the bump's top over the corners that show a bump,
+    /// s (a necessary bound on the ADC's rate, as at pull-in). Infinite when none does.
+    pub bump_duration_min: f32,
     /// The largest current, A: the largest start current.
     pub current_max: f32,
     /// When every corner's bump is confirmed, s (None: some corner's current never falls
@@ -94,6 +97,7 @@ pub fn release_window(
         opened: Span::EMPTY,
         bump: Span::EMPTY,
         sampled_bump_min: f32::INFINITY,
+        bump_duration_min: f32::INFINITY,
         current_max: 0.0,
         confirmed_by: Some(0.0),
     };
@@ -141,6 +145,7 @@ fn corner_release(
     };
     w.bump.add(r.bump_height());
     let (tv, tb, end) = (v.time.value(), b.time.value(), r.end_time.value());
+    w.bump_duration_min = w.bump_duration_min.min(tb - tv);
     let sampled = if tb - tv >= dt && tv >= 0.5 * dt && tb + 0.5 * dt <= end {
         let mut probes = Probes {
             at: [tv - 0.5 * dt, tv + 0.5 * dt, tb - 0.5 * dt, tb + 0.5 * dt],

@@ -127,6 +127,11 @@ pub struct PullInWindow {
     pub dip: Span,
     /// The smallest dip as sampled at the run's sample period, A (see the module docs).
     pub sampled_dip_min: f32,
+    /// The shortest time from the peak to the valley over the corners that seated, s (an ADC
+    /// slower than its inverse cannot be sure to sample near both: a necessary bound on the
+    /// rate; the rate's sufficiency is `sampled_dip_min` at that rate). Infinite when no
+    /// corner seated.
+    pub dip_duration_min: f32,
     /// The highest current any corner reaches within the run, A (V_max/R_min bounds it).
     pub current_max: f32,
     /// The latest instant every corner's current has climbed `confirm` above its valley, s
@@ -240,6 +245,7 @@ pub fn pull_in_window(
         seated: Span::EMPTY,
         dip: Span::EMPTY,
         sampled_dip_min: f32::INFINITY,
+        dip_duration_min: f32::INFINITY,
         current_max: 0.0,
         confirmed_by: Some(0.0),
     };
@@ -270,6 +276,7 @@ pub fn pull_in_window(
         w.seated.add(ts.value());
         w.dip.add(p.dip());
         let (tp, tv) = (pk.time.value(), vl.time.value());
+        w.dip_duration_min = w.dip_duration_min.min(tv - tp);
         let sampled = if tv - tp >= dt && tp >= 0.5 * dt && tv + 0.5 * dt <= run.duration.value() {
             let mut probes = Probes {
                 at: [tp - 0.5 * dt, tp + 0.5 * dt, tv - 0.5 * dt, tv + 0.5 * dt],

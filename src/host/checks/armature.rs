@@ -209,6 +209,10 @@ fn detectable(
     } else {
         String::new()
     };
+    let least_gain = format!(
+        "{least_gain}{}",
+        slowest_rate(w.dip_duration_min, "dip", "peak to valley")
+    );
     match detector_for(w, adc)? {
         Ok(cfg) => {
             out.checks.push(
@@ -251,4 +255,18 @@ fn detectable(
         }
     }
     Ok(())
+}
+
+/// The rate below which no ADC is sure to sample near both turning points: 1/(the shortest
+/// time between them); empty when no corner shows them.
+pub fn slowest_rate(duration_min: f32, what: &str, between: &str) -> String {
+    if duration_min.is_finite() && duration_min > 0.0 {
+        format!(
+            "; the {what} lasts at least {:.2} ms {between} at every corner: an ADC below {:.0} Hz cannot be sure to sample near both (necessary, not sufficient: the detectability above is judged at the design's rate)",
+            duration_min * 1e3,
+            1.0 / duration_min
+        )
+    } else {
+        String::new()
+    }
 }

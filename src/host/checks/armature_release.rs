@@ -185,12 +185,13 @@ fn detectable(
 ) -> Result<(), crate::Error> {
     let adc = &a.adc;
     let bump_counts = w.sampled_bump_min * adc.counts_per_amp;
+    let rate = super::armature::slowest_rate(w.bump_duration_min, "bump", "valley to top");
     match release_detector_for(w, adc)? {
         Ok(cfg) => {
             out.checks.push(
                 Check::worded(&d.name, "armature_release_detectable", "armature release seen by the ADC", Status::Pass, "detectable", Corner::Stated("every corner".into()))
                     .noted(format!(
-                        "the smallest bump as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts (bump {:.1} … {:.1} mA); with ±{} counts of noise the detector (Polarity::Falling) calls a bump of {} counts release; a welded or stuck-closed armature's plain decay never turns that far; verdict within {} samples",
+                        "the smallest bump as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts (bump {:.1} … {:.1} mA); with ±{} counts of noise the detector (Polarity::Falling) calls a bump of {} counts release; a welded or stuck-closed armature's plain decay never turns that far; verdict within {} samples{rate}",
                         adc.rate.value(), w.sampled_bump_min * 1e3, bump_counts, w.bump.lo * 1e3, w.bump.hi * 1e3, adc.noise_counts, cfg.min_dip, cfg.window
                     )),
             );
@@ -211,7 +212,7 @@ fn detectable(
             };
             out.checks.push(
                 Check::worded(&d.name, "armature_release_detectable", "armature release seen by the ADC", Status::Warn, "not detectable", Corner::Stated("the worst corner".into()))
-                    .noted(format!("{reason}; a welded or stuck-closed armature cannot be told from a released one with this ADC at switch-off")),
+                    .noted(format!("{reason}; a welded or stuck-closed armature cannot be told from a released one with this ADC at switch-off{rate}")),
             );
         }
     }
