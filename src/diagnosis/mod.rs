@@ -68,7 +68,7 @@ pub enum Condition {
     CoilTooHot,
     /// The armature did not move at switch-on (a valve stuck shut by dirt, ice or missing
     /// pressure; a relay that does not pull in): seen by the armature's dip detector
-    /// ([`crate::armature::detect`], [`crate::armature::detect::Motion::verdict`]), not by the
+    /// ([`crate::armature::detect`], [`crate::armature::detect::Motion::as_verdict`]), not by the
     /// flyback windows.
     ArmatureStuckOpen,
     /// The armature did not leave its seat at switch-off (a welded contact, residual
