@@ -33,12 +33,15 @@
 pub mod detect;
 pub mod motion;
 pub mod release_sizing;
+pub mod shape;
 pub mod sizing;
 
 use crate::error::{self, Error, Reason};
 use crate::units::Henries;
+pub use shape::GapShape;
 
-/// The air-gap inductance law L(x) = L∞ + (L_seat − L∞)·g₀/(g₀ + x).
+/// The inductance against the gap: the air-gap law L(x) = L∞ + (L_seat − L∞)·g₀/(g₀ + x), or,
+/// with a [`GapShape`] from a measured table, L(x) = L_open + (L_seat − L_open)·h(x/s).
 #[derive(Debug, Clone, Copy, PartialEq)]
 #[cfg_attr(feature = "defmt", derive(defmt::Format))]
 pub struct GapInductance {
@@ -46,8 +49,12 @@ pub struct GapInductance {
     pub seat: Henries,
     /// Inductance with the armature fully open (x = stroke); ≤ `seat`.
     pub open: Henries,
-    /// The fringing length g₀, m (> 0): the gap at which the gap-dependent part has halved.
+    /// The fringing length g₀, m (> 0): the gap at which the gap-dependent part has halved
+    /// (the law's; unused, though still checked, when `shape` is given).
     pub g0_m: f32,
+    /// The shape of a measured table of L against the gap (None: the air-gap law). The table's
+    /// ends give `seat` and `open` ([`shape::TableEnds`]); its gaps stretch with the stroke.
+    pub shape: Option<GapShape>,
 }
 
 /// The armature's mechanics. Every field in SI units.
@@ -116,14 +123,31 @@ impl Armature {
     /// L(x), H, for a gap x in 0 … s (clipped to it).
     pub fn inductance_at(&self, x_m: f32) -> f32 {
         let x = gap(x_m, self.stroke_m);
+        if let Some(h) = &self.inductance.shape {
+            let (ls, lo) = (self.inductance.seat.value(), self.inductance.open.value());
+            let u = if self.stroke_m > 0.0 {
+                x / self.stroke_m
+            } else {
+                0.0
+            };
+            return lo + (ls - lo) * h.value(u);
+        }
         let l_inf = self.l_inf();
         let g0 = self.inductance.g0_m;
         l_inf + (self.inductance.seat.value() - l_inf) * g0 / (g0 + x)
     }
 
-    /// |dL/dx|, H/m, at a gap x in 0 … s (clipped to it).
+    /// |dL/dx|, H/m, at a gap x in 0 … s (clipped to it): with a table's shape,
+    /// (L_seat − L_open)·|h′(x/s)|/s (0 for a zero stroke).
     pub fn inductance_slope_at(&self, x_m: f32) -> f32 {
         let x = gap(x_m, self.stroke_m);
+        if let Some(h) = &self.inductance.shape {
+            let (ls, lo) = (self.inductance.seat.value(), self.inductance.open.value());
+            if !(self.stroke_m > 0.0) {
+                return 0.0;
+            }
+            return (ls - lo) * h.fall_rate(x / self.stroke_m) / self.stroke_m;
+        }
         let g0 = self.inductance.g0_m;
         (self.inductance.seat.value() - self.l_inf()) * g0 / ((g0 + x) * (g0 + x))
     }

@@ -138,6 +138,7 @@ impl Spec {
                 seat: Henries::new(self.ls as f32).unwrap(),
                 open: Henries::new(self.lo as f32).unwrap(),
                 g0_m: self.g0 as f32,
+                shape: None,
             },
         }
     }

@@ -582,11 +582,25 @@ fn armature() -> Result<(), Error> {
             seat: Henries::new(bb(0.35))?,
             open: Henries::new(bb(0.2))?,
             g0_m: bb(0.5e-3),
+            shape: None,
         },
     };
     bb((
         arm.magnetic_force(bb(0.3), bb(1e-3)),
         arm.balance_current(bb(0.0)),
+    ));
+    let (shape, ends) = kickguard::armature::shape::GapShape::from_table(bb(&[
+        (0.0, 0.35),
+        (0.4e-3, 0.26),
+        (0.8e-3, 0.23),
+        (1.5e-3, 0.2),
+    ]))?;
+    let mut tabled = arm;
+    tabled.inductance.shape = Some(shape);
+    bb((
+        ends,
+        tabled.inductance_at(bb(0.7e-3)),
+        tabled.magnetic_force(bb(0.3), bb(1e-3)),
     ));
     let run = Run {
         duration: Seconds::new(bb(0.05))?,

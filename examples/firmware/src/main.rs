@@ -82,6 +82,7 @@ fn did_the_valve_open() {
             seat: Henries::new(if stroke_m > 0.0 { 0.35 } else { 0.22 }).unwrap(),
             open: Henries::new(0.22).unwrap(),
             g0_m: 0.4e-3,
+            shape: None,
         },
     };
     let run = Run {

@@ -144,6 +144,7 @@ fn gap_law(
         seat: coil.inductance(),
         open: Henries::new(open).map_err(|e| r.model(&at("open_inductance"), e))?,
         g0_m: g0,
+        shape: None,
     })
 }
 
