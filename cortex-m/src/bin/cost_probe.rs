@@ -304,6 +304,13 @@ fn dip(n: u32) -> Option<kickguard::armature::detect::Motion> {
     }
     last
 }
+/// A detector fed the first `n` samples as one slice (a DMA half-buffer): no call per sample.
+fn dip_slice(n: usize) -> Option<kickguard::armature::detect::Motion> {
+    let mut d = DipDetector::new(bb(DIP));
+    d.push_slice(bb(PULL_IN.get(..bb(n)).unwrap_or(&[])))
+}
+probe!(probe_dip_slice_20, dip_slice(20));
+probe!(probe_dip_slice_21, dip_slice(21));
 probe!(probe_dip_20, dip(20));
 probe!(probe_dip_21, dip(21));
 probe!(probe_dip_60, dip(60));
@@ -370,6 +377,8 @@ static PROBES: &[extern "C" fn() -> u32] = &[
     probe_unit_8,
     probe_unit_9,
     probe_unit_resume,
+    probe_dip_slice_20,
+    probe_dip_slice_21,
     probe_dip_20,
     probe_dip_21,
     probe_dip_60,
