@@ -30,7 +30,24 @@ pub fn convert(
     };
     let at = |x: &str| format!("{field}.armature.{x}");
     // Read in the file's order, so the first error named is the first field at fault.
-    let nominal = mechanics(r, &at, a, || gap_law(r, &at, a, coil))?;
+    let mut table_stroke = None;
+    let nominal = mechanics(r, &at, a, || {
+        let (law, stroke) = gap_law(r, &at, a, coil)?;
+        table_stroke = stroke;
+        Ok(law)
+    })?;
+    if let Some(s) = table_stroke {
+        if !((s - nominal.stroke_m).abs() <= 5e-3 * nominal.stroke_m) {
+            return Err(r.at(
+                &at("inductance_table"),
+                format!(
+                    "its last gap ({:.4} mm) must be the stroke ({:.4} mm): the table runs from the seat to the open stop",
+                    s * 1e3,
+                    nominal.stroke_m * 1e3
+                ),
+            ));
+        }
+    }
     let pct = range(0.0, 0.5, "0 … 50 %");
     let tol = r
         .oq(&a.tolerance, &at("tolerance"), Unit::Percent, pct)?
@@ -115,14 +132,19 @@ fn mechanics(
     })
 }
 
-/// The gap law: L_seat the coil's inductance, L_open (below it) and g₀ from the section.
+/// L against the gap: the air-gap law (L_seat the coil's inductance, L_open below it and g₀
+/// from the section), or a measured table (its shape; with the table's last gap, which must be
+/// the stroke).
 fn gap_law(
     r: &Reader<'_>,
     at: &dyn Fn(&str) -> String,
     a: &file::ArmatureSpec,
     coil: &Coil,
-) -> Result<GapInductance, HostError> {
-    let open = r.q(
+) -> Result<(GapInductance, Option<f32>), HostError> {
+    if let Some(t) = &a.inductance_table {
+        return table_law(r, at, a, t, coil).map(|(g, s)| (g, Some(s)));
+    }
+    let open = r.req(
         &a.open_inductance,
         &at("open_inductance"),
         Unit::Henry,
@@ -134,18 +156,74 @@ fn gap_law(
             "must be below the coil's inductance (the seated one): opening the gap lowers L",
         ));
     }
-    let g0 = r.q(
+    let g0 = r.req(
         &a.fringe,
         &at("fringe"),
         Unit::Metre,
         range(1e-7, 0.1, "0.1 µm … 100 mm"),
     )?;
-    Ok(GapInductance {
-        seat: coil.inductance(),
-        open: Henries::new(open).map_err(|e| r.model(&at("open_inductance"), e))?,
-        g0_m: g0,
-        shape: None,
-    })
+    Ok((
+        GapInductance {
+            seat: coil.inductance(),
+            open: Henries::new(open).map_err(|e| r.model(&at("open_inductance"), e))?,
+            g0_m: g0,
+            shape: None,
+        },
+        None,
+    ))
+}
+
+/// A measured table of L against the gap (`open_inductance` and `fringe` must then be absent):
+/// its first L must be the coil's inductance (the seated one, to 0.5 %); returns the law and
+/// the table's last gap.
+fn table_law(
+    r: &Reader<'_>,
+    at: &dyn Fn(&str) -> String,
+    a: &file::ArmatureSpec,
+    table: &[[file::Q; 2]],
+    coil: &Coil,
+) -> Result<(GapInductance, f32), HostError> {
+    let field = at("inductance_table");
+    if a.open_inductance.is_some() || a.fringe.is_some() {
+        return Err(r.at(
+            &field,
+            "give either the table or open_inductance and fringe (the air-gap law), not both",
+        ));
+    }
+    if table.len() > crate::armature::shape::MAX_POINTS {
+        return Err(r.at(&field, "takes at most 12 points"));
+    }
+    let mut points = [(0.0f32, 0.0f32); crate::armature::shape::MAX_POINTS];
+    for ((k, [x, l]), p) in table.iter().enumerate().zip(points.iter_mut()) {
+        let here = format!("{field}[{k}]");
+        *p = (
+            r.q(x, &here, Unit::Metre, range(0.0, 0.1, "0 … 100 mm"))?,
+            r.q(l, &here, Unit::Henry, range(1e-9, 1e3, "1 nH … 1 kH"))?,
+        );
+    }
+    let given = points.get(..table.len()).unwrap_or(&[]);
+    let (shape, ends) =
+        crate::armature::shape::GapShape::from_table(given).map_err(|e| r.model(&field, e))?;
+    let seat = coil.inductance().value();
+    if !((ends.seat_h - seat).abs() <= 5e-3 * seat) {
+        return Err(r.at(
+            &field,
+            format!(
+                "its L at gap 0 ({:.4} H) must be the coil's inductance ({seat:.4} H): the seated L",
+                ends.seat_h
+            ),
+        ));
+    }
+    Ok((
+        GapInductance {
+            seat: coil.inductance(),
+            open: Henries::new(ends.open_h).map_err(|e| r.model(&field, e))?,
+            // The law's g₀ is not used with a table; a valid placeholder (the stroke).
+            g0_m: ends.stroke_m,
+            shape: Some(shape),
+        },
+        ends.stroke_m,
+    ))
 }
 
 /// The open inductance's tolerance (default the coil's): the open and seated inductances may

@@ -289,10 +289,14 @@ pub struct ArmatureSpec {
     pub load: Option<Q>,
     /// Viscous damping; optional (0).
     pub damping: Option<Q>,
-    /// Inductance with the armature open (the coil's inductance is the seated one).
-    pub open_inductance: Q,
-    /// The air-gap law's fringing length g₀.
-    pub fringe: Q,
+    /// Inductance with the armature open (the coil's inductance is the seated one); required
+    /// without `inductance_table`.
+    pub open_inductance: Option<Q>,
+    /// The air-gap law's fringing length g₀; required without `inductance_table`.
+    pub fringe: Option<Q>,
+    /// L against the gap as measured, [gap, L] pairs from the seat (gap 0, the coil's
+    /// inductance) to the stroke; instead of `open_inductance` and `fringe`.
+    pub inductance_table: Option<std::vec::Vec<[Q; 2]>>,
     /// ± tolerance of mass, stroke, spring, load, damping and g₀; optional (0 %).
     pub tolerance: Option<Q>,
     /// ± tolerance of the open inductance; optional (the coil's inductance tolerance).
