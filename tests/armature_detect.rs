@@ -307,3 +307,98 @@ fn detector_verdicts_by_hand() {
         Some(Condition::ArmatureStuckClosed)
     );
 }
+
+/// The least rate the configuration step reports: the turning points kept by the design-rate
+/// search give, at any slower rate, the same smallest sampled dip as a whole new search
+/// (checked exactly at one rate); bisecting on them finds the least rate judged detectable,
+/// and there the detector still sees every motion of the independent reference, with noise,
+/// at random points and phases, and never calls a stuck armature moved.
+#[test]
+fn the_least_rate_still_sees_every_motion() {
+    use kickguard::armature::sizing::{pull_in_window_keeping, sampled_dip_min_at, CornerTurns};
+    for s in specs().iter().take(2) {
+        let a = adc(s, 10_000.0);
+        let dur = Seconds::new(duration(s) as f32).unwrap();
+        let confirm = confirm_amps(&a).unwrap();
+        let mut turns = vec![CornerTurns::default(); 2048];
+        let (w, kept) = pull_in_window_keeping(
+            &s.armature(),
+            &tolerances(),
+            &drive(s),
+            &run_for(&a, dur).unwrap(),
+            confirm,
+            &mut turns,
+        )
+        .unwrap();
+        turns.truncate(kept);
+        assert!(detector_for(&w, &a).unwrap().is_ok(), "{}", s.name);
+        let at = |rate: f32| {
+            let ar = Adc {
+                rate: Hertz::new(rate).unwrap(),
+                ..a
+            };
+            let run = run_for(&ar, dur).unwrap();
+            let sampled =
+                sampled_dip_min_at(&s.armature(), &tolerances(), &drive(s), &run, &turns).unwrap();
+            (ar, run, sampled)
+        };
+        // Exact against a whole new search at 4 kHz.
+        let (_, run4, s4) = at(4_000.0);
+        let whole =
+            pull_in_window(&s.armature(), &tolerances(), &drive(s), &run4, confirm).unwrap();
+        assert_eq!(s4, whole.sampled_dip_min, "{}", s.name);
+        // Bisection (as the host's) between 1/(shortest dip) and 10 kHz.
+        let sees = |rate: f32| {
+            let (ar, _, sampled) = at(rate);
+            let mut wr = w;
+            wr.sampled_dip_min = sampled;
+            wr.confirmed_by = w.confirmed_by.map(|b| b - 1e-4 + 1.0 / rate);
+            detector_for(&wr, &ar).unwrap()
+        };
+        let (mut lo, mut hi) = (1.0 / w.dip_duration_min, 10_000.0f32);
+        for _ in 0..6 {
+            let mid = (lo * hi).sqrt();
+            if sees(mid).is_ok() {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        let cfg = sees(hi).unwrap();
+        let ar = Adc {
+            rate: Hertz::new(hi).unwrap(),
+            ..a
+        };
+        let rate = f64::from(hi);
+        let t_end = f64::from(cfg.window) / rate;
+        let mut rng = Rng(0x1EA5 + s.m.to_bits());
+        let (mut misses, mut false_moved) = (0, 0);
+        for _ in 0..POINTS {
+            let mut u = [0.0f64; 11];
+            for x in u.iter_mut() {
+                *x = rng.unit();
+            }
+            let p = perturbed(s, MECH, INDUCT, supply(s), resistance(s), &u);
+            let phase = rng.unit();
+            let moving = pull_in_waveform(&p, t_end, 1.0 / rate, phase, false);
+            let stuck = pull_in_waveform(&p, t_end, 1.0 / rate, phase, true);
+            if !matches!(
+                verdict(cfg, &counts(&moving, &ar, &mut rng)),
+                Motion::Moved { .. }
+            ) {
+                misses += 1;
+            }
+            if matches!(
+                verdict(cfg, &counts(&stuck, &ar, &mut rng)),
+                Motion::Moved { .. }
+            ) {
+                false_moved += 1;
+            }
+        }
+        println!(
+            "{}: least rate {hi:.0} Hz ({lo:.0} Hz not), {misses} misses, {false_moved} false",
+            s.name
+        );
+        assert_eq!((misses, false_moved), (0, 0), "{} at {hi} Hz", s.name);
+    }
+}

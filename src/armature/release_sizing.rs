@@ -152,6 +152,7 @@ fn corner_release(
             got: [0.0; 4],
             n: 0,
         };
+        // Ends at the last instant (Sink::ends_run; the steps up to it are the whole run's).
         release_to(a, off, run, &mut probes)?;
         if probes.n != 4 {
             return Err(Error::new("sample period", Reason::Unreachable));

@@ -29,7 +29,8 @@
 //! window. The window ends after the latest such climb (closed form on the seated rise:
 //! t_seat + τ_seat·ln((V/R − i_seat)/(V/R − i_v − Δ)), Δ the climb in amperes) plus one sample.
 //!
-//! Work: 2 × 2048 integrations (each bounded as [`super::motion`] states).
+//! Work: 2 × 2048 integrations (each bounded as [`super::motion`] states; the second of each
+//! corner ends just after its valley).
 
 use super::detect::{DipConfig, Polarity};
 use super::motion::{pull_in_to, PullIn, Run, Sink};
@@ -150,6 +151,9 @@ impl Sink for Probes {
     fn next_due(&self) -> Option<f32> {
         self.at.get(self.n).copied()
     }
+    fn ends_run(&self) -> bool {
+        true
+    }
     fn put(&mut self, i: f32) {
         if let Some(g) = self.got.get_mut(self.n) {
             *g = i;
@@ -234,6 +238,35 @@ pub fn pull_in_window(
     run: &Run,
     confirm: f32,
 ) -> Result<PullInWindow, Error> {
+    pull_in_window_keeping(nominal, tol, drive, run, confirm, &mut []).map(|(w, _)| w)
+}
+
+/// A seated corner's turning points, kept by [`pull_in_window_keeping`] for
+/// [`sampled_dip_min_at`].
+#[derive(Debug, Clone, Copy, PartialEq, Default)]
+#[cfg_attr(feature = "defmt", derive(defmt::Format))]
+pub struct CornerTurns {
+    /// The corner's index (bits as in the module docs).
+    pub corner: u32,
+    /// The peak's time, s.
+    pub peak_s: f32,
+    /// The valley's time, s.
+    pub valley_s: f32,
+}
+
+/// [`pull_in_window`], keeping each seated corner's turning points in `keep` (as many as fit;
+/// 2048 hold every corner): returns the window and how many were kept.
+///
+/// # Errors
+/// As [`pull_in_window`].
+pub fn pull_in_window_keeping(
+    nominal: &Armature,
+    tol: &Tolerances,
+    drive: &DriveRange,
+    run: &Run,
+    confirm: f32,
+    keep: &mut [CornerTurns],
+) -> Result<(PullInWindow, usize), Error> {
     check(tol, drive)?;
     nominal.validate()?;
     error::non_negative("confirm", confirm)?;
@@ -249,18 +282,10 @@ pub fn pull_in_window(
         current_max: 0.0,
         confirmed_by: Some(0.0),
     };
+    let mut kept = 0usize;
     for k in 0u32..2048 {
         let a = corner(nominal, tol, k)?;
-        let v = if k & (1 << 9) == 0 {
-            drive.supply_min
-        } else {
-            drive.supply_max
-        };
-        let r = if k & (1 << 10) == 0 {
-            drive.resistance_min
-        } else {
-            drive.resistance_max
-        };
+        let (v, r) = drive_of(drive, k);
         let p = pull_in_to(&a, r, v, run, &mut Nothing)?;
         w.corners = w.corners.saturating_add(1);
         let i_final = v.value() / r.value();
@@ -277,23 +302,15 @@ pub fn pull_in_window(
         w.dip.add(p.dip());
         let (tp, tv) = (pk.time.value(), vl.time.value());
         w.dip_duration_min = w.dip_duration_min.min(tv - tp);
-        let sampled = if tv - tp >= dt && tp >= 0.5 * dt && tv + 0.5 * dt <= run.duration.value() {
-            let mut probes = Probes {
-                at: [tp - 0.5 * dt, tp + 0.5 * dt, tv - 0.5 * dt, tv + 0.5 * dt],
-                got: [0.0; 4],
-                n: 0,
+        if let Some(slot) = keep.get_mut(kept) {
+            *slot = CornerTurns {
+                corner: k,
+                peak_s: tp,
+                valley_s: tv,
             };
-            pull_in_to(&a, r, v, run, &mut probes)?;
-            if probes.n != 4 {
-                return Err(Error::new("sample period", Reason::Unreachable));
-            }
-            let [a0, a1, b0, b1] = probes.got;
-            a0.min(a1) - b0.max(b1)
-        } else {
-            // Peak and valley within one sample of each other (or of the run's ends): no
-            // sample is sure to see the dip.
-            0.0
-        };
+            kept += 1;
+        }
+        let sampled = sampled_dip(&a, r, v, run, tp, tv)?;
         w.sampled_dip_min = w.sampled_dip_min.min(sampled);
         // The climb: from the seat the current rises as V/R + (i_seat − V/R)·e^(−t/τ_seat).
         // The valley's current stands in for i_seat: equal when the valley is the seating,
@@ -314,7 +331,76 @@ pub fn pull_in_window(
             _ => None,
         };
     }
-    Ok(w)
+    Ok((w, kept))
+}
+
+/// The supply and resistance of corner `k` (bits 9 and 10).
+fn drive_of(drive: &DriveRange, k: u32) -> (Volts, Ohms) {
+    let v = if k & (1 << 9) == 0 {
+        drive.supply_min
+    } else {
+        drive.supply_max
+    };
+    let r = if k & (1 << 10) == 0 {
+        drive.resistance_min
+    } else {
+        drive.resistance_max
+    };
+    (v, r)
+}
+
+/// The dip of one corner as an ADC sampling every `run.sample_period` sees it at any phase
+/// (module docs), from its peak and valley times: a second run landing on t_p ± Δt/2 and
+/// t_v ± Δt/2, ended at the last ([`Sink::ends_run`]: the steps up to there are those of the
+/// whole run). 0 where the turns are within one sample of each other or of the run's ends.
+fn sampled_dip(a: &Armature, r: Ohms, v: Volts, run: &Run, tp: f32, tv: f32) -> Result<f32, Error> {
+    let dt = run.sample_period.value();
+    if !(tv - tp >= dt && tp >= 0.5 * dt && tv + 0.5 * dt <= run.duration.value()) {
+        return Ok(0.0);
+    }
+    let mut probes = Probes {
+        at: [tp - 0.5 * dt, tp + 0.5 * dt, tv - 0.5 * dt, tv + 0.5 * dt],
+        got: [0.0; 4],
+        n: 0,
+    };
+    pull_in_to(a, r, v, run, &mut probes)?;
+    if probes.n != 4 {
+        return Err(Error::new("sample period", Reason::Unreachable));
+    }
+    let [a0, a1, b0, b1] = probes.got;
+    Ok(a0.min(a1) - b0.max(b1))
+}
+
+/// The smallest dip as sampled every `run.sample_period` at any phase over the corners `turns`
+/// lists (from [`pull_in_window_keeping`] with the same armature, tolerances and drive: its
+/// turning points do not depend on the sample period), with no first pass: one short run per
+/// corner. Infinite with no corner.
+///
+/// # Errors
+/// More than 2048 turns → [`Reason::TooLarge`] on `"turns"`; a corner index beyond 2047 →
+/// [`Reason::OutsideValidatedRange`] on `"turns"`; as [`pull_in_window`] otherwise.
+pub fn sampled_dip_min_at(
+    nominal: &Armature,
+    tol: &Tolerances,
+    drive: &DriveRange,
+    run: &Run,
+    turns: &[CornerTurns],
+) -> Result<f32, Error> {
+    check(tol, drive)?;
+    nominal.validate()?;
+    if turns.len() > 2048 {
+        return Err(Error::new("turns", Reason::TooLarge));
+    }
+    let mut least = f32::INFINITY;
+    for t in turns {
+        if t.corner >= 2048 {
+            return Err(Error::new("turns", Reason::OutsideValidatedRange));
+        }
+        let a = corner(nominal, tol, t.corner)?;
+        let (v, r) = drive_of(drive, t.corner);
+        least = least.min(sampled_dip(&a, r, v, run, t.peak_s, t.valley_s)?);
+    }
+    Ok(least)
 }
 
 fn peak_of(p: &PullIn) -> f32 {

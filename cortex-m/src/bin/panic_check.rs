@@ -653,6 +653,23 @@ fn armature() -> Result<(), Error> {
             confirm_amps(&adc)?,
         )?;
         bb(detector_for(&w, &adc)?.is_ok());
+        let mut turns = [kickguard::armature::sizing::CornerTurns::default(); 4];
+        let run_k = run_for(&adc, Seconds::new(bb(0.2))?)?;
+        let (_, kept) = kickguard::armature::sizing::pull_in_window_keeping(
+            &arm,
+            &tol,
+            &drive,
+            &run_k,
+            confirm_amps(&adc)?,
+            &mut turns,
+        )?;
+        bb(kickguard::armature::sizing::sampled_dip_min_at(
+            &arm,
+            &tol,
+            &drive,
+            &run_k,
+            turns.get(..kept).unwrap_or(&[]),
+        )?);
         let rw = release_window(
             &arm,
             &tol,

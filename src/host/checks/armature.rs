@@ -7,13 +7,14 @@
 
 use super::{ticks_up, Check, Constant, Corner, Outcome, Status, Unit};
 use crate::armature::sizing::{
-    confirm_amps, detector_for, pull_in_window, run_for, DriveRange, NotDetectable, PullInWindow,
+    confirm_amps, detector_for, pull_in_window_keeping, run_for, sampled_dip_min_at, Adc,
+    CornerTurns, DriveRange, NotDetectable, PullInWindow,
 };
 use crate::host::board::{ArmatureBoard, Board, DriverBoard};
 use crate::host::corners::Axis;
 use crate::host::engine::DriverRun;
 use crate::host::HostError;
-use crate::units::{Ohms, Seconds, Temperature};
+use crate::units::{Hertz, Ohms, Seconds, Temperature};
 use std::format;
 use std::string::String;
 use std::vec::Vec;
@@ -37,10 +38,14 @@ pub fn checks(board: &Board, run: &DriverRun, out: &mut Outcome) -> Result<(), H
     .map_err(fault)?;
     let run_a = run_for(&a.adc, duration).map_err(fault)?;
     let confirm = confirm_amps(&a.adc).map_err(fault)?;
-    let w = pull_in_window(&a.nominal, &a.tol, &drive, &run_a, confirm).map_err(fault)?;
+    let mut turns = std::vec![CornerTurns::default(); 2048];
+    let (w, kept) = pull_in_window_keeping(&a.nominal, &a.tol, &drive, &run_a, confirm, &mut turns)
+        .map_err(fault)?;
+    turns.truncate(kept);
     pulls_in(board, d, &w, duration, out)?;
     hold_waits(board, d, &w, &drive, out);
-    detectable(d, a, &w, out).map_err(fault)?;
+    let slower = least_rate(a, &drive, duration, &w, &turns).map_err(fault)?;
+    detectable(d, a, &w, &slower, out).map_err(fault)?;
     super::armature_release::checks(board, run, a, out)
 }
 
@@ -195,6 +200,7 @@ fn detectable(
     d: &DriverBoard,
     a: &ArmatureBoard,
     w: &PullInWindow,
+    slower: &str,
     out: &mut Outcome,
 ) -> Result<(), crate::Error> {
     let adc = &a.adc;
@@ -210,7 +216,7 @@ fn detectable(
         String::new()
     };
     let least_gain = format!(
-        "{least_gain}{}",
+        "{least_gain}{slower}{}",
         slowest_rate(w.dip_duration_min, "dip", "peak to valley")
     );
     match detector_for(w, adc)? {
@@ -269,4 +275,64 @@ pub fn slowest_rate(duration_min: f32, what: &str, between: &str) -> String {
     } else {
         String::new()
     }
+}
+
+/// The bisection's steps on the rate (in log space between the necessary bound and the
+/// design's rate: at most a ratio of 5^(1/64) ≈ 1.03 left from a factor of 5).
+const RATE_STEPS: u32 = 6;
+
+/// The least ADC rate that still sees the motion at every corner, where the design's rate
+/// does: bisection in log space between the rate the dip's duration requires (1/(t_v − t_p),
+/// necessary) and the design's rate, each rate judged over every corner from the turning
+/// points the design's search kept (their times do not depend on the rate; one short run per
+/// corner and rate). Assumes the sampled dip shrinks as the rate falls (it does as each
+/// sample's distance from the turning points grows); the rate reported is one judged
+/// detectable, never interpolated. Empty where the design's rate does not see it. Work: at
+/// most [`RATE_STEPS`] + 1 passes of one short run per seated corner.
+fn least_rate(
+    a: &ArmatureBoard,
+    drive: &DriveRange,
+    duration: Seconds,
+    w: &PullInWindow,
+    turns: &[CornerTurns],
+) -> Result<String, crate::Error> {
+    if detector_for(w, &a.adc)?.is_err() {
+        return Ok(String::new());
+    }
+    let design = a.adc.rate.value();
+    let sees = |rate: f32| -> Result<bool, crate::Error> {
+        let adc = Adc {
+            rate: Hertz::new(rate)?,
+            ..a.adc
+        };
+        let run = run_for(&adc, duration)?;
+        let sampled = sampled_dip_min_at(&a.nominal, &a.tol, drive, &run, turns)?;
+        // The confirmation instant carries one sample period of the design's rate.
+        let by = w.confirmed_by.map(|b| b - 1.0 / design + 1.0 / rate);
+        let mut at = *w;
+        at.sampled_dip_min = sampled;
+        at.confirmed_by = by;
+        Ok(detector_for(&at, &adc)?.is_ok())
+    };
+    let floor = 1.0 / w.dip_duration_min;
+    if !(floor < design) {
+        return Ok(String::new());
+    }
+    if sees(floor)? {
+        return Ok(format!(
+            "; the least ADC rate that sees it: {floor:.0} Hz, the bound the dip's duration sets (every corner judged at it)"
+        ));
+    }
+    let (mut lo, mut hi) = (floor, design);
+    for _ in 0..RATE_STEPS {
+        let mid = crate::math::sqrt(lo * hi);
+        if sees(mid)? {
+            hi = mid;
+        } else {
+            lo = mid;
+        }
+    }
+    Ok(format!(
+        "; the least ADC rate that sees it: {hi:.0} Hz (every corner judged at it; {lo:.0} Hz does not)"
+    ))
 }
