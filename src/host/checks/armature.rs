@@ -139,17 +139,13 @@ fn hold_waits(
     drive: &DriveRange,
     out: &mut Outcome,
 ) {
-    let Some(c) = out
-        .constants
-        .iter()
-        .find(|c| c.scope == d.module && c.name == "PULL_IN_TICKS")
-    else {
+    let Some(pull_in) = out.constant(&d.module, "PULL_IN_TICKS") else {
         return;
     };
     if w.not_seated.is_some() {
         return;
     }
-    let t_hold = c.value as f32 / board.tick.value();
+    let t_hold = pull_in as f32 / board.tick.value();
     let ok = t_hold >= w.seated.hi;
     out.checks.push(
         Check::worded(

@@ -126,15 +126,15 @@ fn release_time(
         source: "required release time".into(),
     });
     let model = ticks_up(board, w.opened.hi)?;
-    let datasheet = constant(out, &d.module, "RELEASE_WAIT_TICKS");
+    let datasheet = out.constant(&d.module, "RELEASE_WAIT_TICKS");
     let governs = match datasheet {
         Some(t) if t > model => format!("RELEASE_WAIT_TICKS stays at the datasheet-based {t} ticks (decay to the must-release current plus the mechanical release time), longer than the model's {model}: the longer wait is kept"),
         Some(t) => format!("RELEASE_WAIT_TICKS is the model's {model} ticks, replacing the datasheet-based {t}"),
         None => format!("RELEASE_WAIT_TICKS is the model's {model} ticks"),
     };
-    set_wait(out, &d.module, "RELEASE_WAIT_TICKS", datasheet.unwrap_or(0).max(model), "wait from switch-off until the contacts are open (the armature at its open stop), worst corner, rounded up");
-    let decay = constant(out, &d.module, "DECAY_WAIT_TICKS").unwrap_or(0);
-    set_wait(out, &d.module, "REENERGISE_WAIT_TICKS", decay.max(datasheet.unwrap_or(0)).max(model), "wait from switch-off before re-energising or reversing: the longer of RELEASE_WAIT_TICKS and DECAY_WAIT_TICKS");
+    out.set_constant(&d.module, "RELEASE_WAIT_TICKS", datasheet.unwrap_or(0).max(model), "wait from switch-off until the contacts are open (the armature at its open stop), worst corner, rounded up");
+    let decay = out.constant(&d.module, "DECAY_WAIT_TICKS").unwrap_or(0);
+    out.set_constant(&d.module, "REENERGISE_WAIT_TICKS", decay.max(datasheet.unwrap_or(0)).max(model), "wait from switch-off before re-energising or reversing: the longer of RELEASE_WAIT_TICKS and DECAY_WAIT_TICKS");
     out.checks.push(
         Check::valued(
             &d.name,
@@ -154,26 +154,6 @@ fn release_time(
         )),
     );
     Ok(())
-}
-
-/// A constant's value, if emitted.
-fn constant(out: &Outcome, scope: &str, name: &str) -> Option<u32> {
-    out.constants
-        .iter()
-        .find(|c| c.scope == scope && c.name == name)
-        .map(|c| c.value)
-}
-
-/// Sets (or adds) a constant.
-fn set_wait(out: &mut Outcome, scope: &str, name: &str, value: u32, doc: &str) {
-    match out
-        .constants
-        .iter_mut()
-        .find(|c| c.scope == scope && c.name == name)
-    {
-        Some(c) => c.value = value,
-        None => out.constants.push(Constant::new(scope, name, value, doc)),
-    }
 }
 
 /// Whether the ADC sees the release, with the release detector's constants.

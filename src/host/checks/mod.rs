@@ -89,6 +89,29 @@ pub struct Outcome {
     pub windows: Vec<WindowTable>,
 }
 
+impl Outcome {
+    /// The value of constant `name` of `scope`, if emitted.
+    pub fn constant(&self, scope: &str, name: &str) -> Option<u32> {
+        self.constants
+            .iter()
+            .find(|c| c.scope == scope && c.name == name)
+            .map(|c| c.value)
+    }
+
+    /// Sets constant `name` of `scope` to `value`, adding it with `doc` if not yet emitted
+    /// (an existing one keeps its doc).
+    pub fn set_constant(&mut self, scope: &str, name: &str, value: u32, doc: &str) {
+        match self
+            .constants
+            .iter_mut()
+            .find(|c| c.scope == scope && c.name == name)
+        {
+            Some(c) => c.value = value,
+            None => self.constants.push(Constant::new(scope, name, value, doc)),
+        }
+    }
+}
+
 /// Runs every check of one analysed driver.
 ///
 /// # Errors
