@@ -15,42 +15,19 @@
 
 mod common;
 
-use common::armature::{perturbed, pull_in_waveform, specs, Spec};
+use common::armature::{pull_in_waveform, specs, Spec};
+use common::detect_box::{
+    adc, counts, random_point, resistance, supply, tolerances, verdict, NOISE,
+};
 use common::Rng;
-use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
+use kickguard::armature::detect::{DipConfig, Motion, Polarity};
 use kickguard::armature::motion::pull_in;
 use kickguard::armature::sizing::{
-    confirm_amps, detector_for, pull_in_window, run_for, Adc, DriveRange, Tolerances,
+    confirm_amps, detector_for, pull_in_window, run_for, Adc, DriveRange,
 };
 use kickguard::{Hertz, Ohms, Seconds, Volts};
 
-const MECH: f64 = 0.1;
-const INDUCT: f64 = 0.05;
-const NOISE: u16 = 4;
 const POINTS: usize = 24;
-
-fn tolerances() -> Tolerances {
-    let (m, l) = (MECH as f32, INDUCT as f32);
-    Tolerances {
-        mass: m,
-        stroke: m,
-        preload: m,
-        spring: m,
-        load: m,
-        damping: m,
-        l_seat: l,
-        l_open: l,
-        g0: m,
-    }
-}
-
-fn supply(s: &Spec) -> (f64, f64) {
-    (0.9 * s.v, 1.1 * s.v)
-}
-
-fn resistance(s: &Spec) -> (f64, f64) {
-    (0.93 * s.r, 1.07 * 1.15 * s.r)
-}
 
 fn drive(s: &Spec) -> DriveRange {
     let (v, r) = (supply(s), resistance(s));
@@ -60,34 +37,6 @@ fn drive(s: &Spec) -> DriveRange {
         resistance_min: Ohms::new(r.0 as f32).unwrap(),
         resistance_max: Ohms::new(r.1 as f32).unwrap(),
     }
-}
-
-fn adc(s: &Spec, rate: f64) -> Adc {
-    let i_max = supply(s).1 / resistance(s).0;
-    Adc {
-        rate: Hertz::new(rate as f32).unwrap(),
-        counts_per_amp: (0.8 * 4096.0 / i_max) as f32,
-        full_scale: 4096,
-        noise_counts: NOISE,
-    }
-}
-
-/// The ADC's counts of a waveform: rounded, with clipped Gaussian noise.
-fn counts(wave: &[f64], a: &Adc, rng: &mut Rng) -> Vec<u16> {
-    let bound = f64::from(a.noise_counts);
-    wave.iter()
-        .map(|i| {
-            let n = (rng.normal() * bound / 3.0).clamp(-bound, bound);
-            (i * a.counts_per_amp as f64 + n)
-                .round()
-                .clamp(0.0, 65535.0) as u16
-        })
-        .collect()
-}
-
-fn verdict(cfg: DipConfig, samples: &[u16]) -> Motion {
-    let mut d = DipDetector::new(cfg);
-    d.push_slice(samples).unwrap_or_else(|| d.finish())
 }
 
 #[derive(Default, Debug)]
@@ -145,11 +94,7 @@ fn detector_never_calls_a_stuck_armature_moved_and_never_misses_where_detectable
             let mut rng = Rng(0xA3A7 + 31 * k as u64 + rate as u64);
             let mut t = Tally::default();
             for _ in 0..POINTS {
-                let mut u = [0.0f64; 11];
-                for x in u.iter_mut() {
-                    *x = rng.unit();
-                }
-                let p = perturbed(s, MECH, INDUCT, supply(s), resistance(s), &u);
+                let p = random_point(s, &mut rng);
                 let phase = rng.unit();
                 let moving = pull_in_waveform(&p, t_end, 1.0 / rate, phase, false);
                 let stuck = pull_in_waveform(&p, t_end, 1.0 / rate, phase, true);
@@ -374,11 +319,7 @@ fn the_least_rate_still_sees_every_motion() {
         let mut rng = Rng(0x1EA5 + s.m.to_bits());
         let (mut misses, mut false_moved) = (0, 0);
         for _ in 0..POINTS {
-            let mut u = [0.0f64; 11];
-            for x in u.iter_mut() {
-                *x = rng.unit();
-            }
-            let p = perturbed(s, MECH, INDUCT, supply(s), resistance(s), &u);
+            let p = random_point(s, &mut rng);
             let phase = rng.unit();
             let moving = pull_in_waveform(&p, t_end, 1.0 / rate, phase, false);
             let stuck = pull_in_waveform(&p, t_end, 1.0 / rate, phase, true);

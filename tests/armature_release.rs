@@ -23,21 +23,21 @@
 
 mod common;
 
-use common::armature::{crossing, dense, perturbed, specs as common_specs, Spec, V3};
+use common::armature::{crossing, dense, specs as common_specs, Spec, V3};
+use common::detect_box::{
+    adc, counts, random_point, resistance, supply, tolerances, verdict, INDUCT, MECH, NOISE,
+};
 use common::Rng;
-use kickguard::armature::detect::{DipConfig, DipDetector, Motion, Polarity};
+use kickguard::armature::detect::{DipConfig, Motion, Polarity};
 use kickguard::armature::motion::release;
 use kickguard::armature::release_sizing::{release_detector_for, release_window};
-use kickguard::armature::sizing::{confirm_amps, run_for, Adc, Tolerances};
+use kickguard::armature::sizing::{confirm_amps, run_for, Tolerances};
 use kickguard::clamp::{Clamp, Operating, Side, SwitchOff};
 use kickguard::coil::Coil;
 use kickguard::diode::{Diode, DiodeParams};
-use kickguard::{Amps, Henries, Hertz, Ohms, Seconds, Temperature, Volts};
+use kickguard::{Amps, Henries, Ohms, Seconds, Temperature, Volts};
 use ode_solvers::{Dopri5, SVector, System};
 
-const MECH: f64 = 0.1;
-const INDUCT: f64 = 0.05;
-const NOISE: u16 = 4;
 const POINTS: usize = 16;
 const TK: f64 = 298.15;
 /// Dense-output points of each reference phase (linear interpolation between them: at most
@@ -77,39 +77,6 @@ fn specs() -> Vec<Spec> {
         v: 24.0,
     });
     v
-}
-
-fn tolerances() -> Tolerances {
-    let (m, l) = (MECH as f32, INDUCT as f32);
-    Tolerances {
-        mass: m,
-        stroke: m,
-        preload: m,
-        spring: m,
-        load: m,
-        damping: m,
-        l_seat: l,
-        l_open: l,
-        g0: m,
-    }
-}
-
-fn supply(s: &Spec) -> (f64, f64) {
-    (0.9 * s.v, 1.1 * s.v)
-}
-
-fn resistance(s: &Spec) -> (f64, f64) {
-    (0.93 * s.r, 1.07 * 1.15 * s.r)
-}
-
-fn adc(s: &Spec, rate: f64) -> Adc {
-    let i_max = supply(s).1 / resistance(s).0;
-    Adc {
-        rate: Hertz::new(rate as f32).unwrap(),
-        counts_per_amp: (0.8 * 4096.0 / i_max) as f32,
-        full_scale: 4096,
-        noise_counts: NOISE,
-    }
 }
 
 /// The switch-off through the silicon diode of a coil of resistance `r` carrying `v/r`.
@@ -225,24 +192,6 @@ fn release_waveform(s: &Spec, t_end: f64, dt: f64, phase: f64, welded: bool) -> 
     Some(out)
 }
 
-/// The ADC's counts of a waveform: rounded, with clipped Gaussian noise.
-fn counts(wave: &[f64], a: &Adc, rng: &mut Rng) -> Vec<u16> {
-    let bound = f64::from(a.noise_counts);
-    wave.iter()
-        .map(|i| {
-            let n = (rng.normal() * bound / 3.0).clamp(-bound, bound);
-            (i * a.counts_per_amp as f64 + n)
-                .round()
-                .clamp(0.0, 65535.0) as u16
-        })
-        .collect()
-}
-
-fn verdict(cfg: DipConfig, samples: &[u16]) -> Motion {
-    let mut d = DipDetector::new(cfg);
-    d.push_slice(samples).unwrap_or_else(|| d.finish())
-}
-
 #[derive(Default, Debug)]
 struct Tally {
     moving: u32,
@@ -291,11 +240,7 @@ fn release_detector_never_calls_a_welded_armature_released_and_never_misses_wher
             let mut rng = Rng(0x5E1E + 31 * k as u64 + rate as u64);
             let mut t = Tally::default();
             for _ in 0..POINTS {
-                let mut u = [0.0f64; 11];
-                for x in u.iter_mut() {
-                    *x = rng.unit();
-                }
-                let p = perturbed(s, MECH, INDUCT, supply(s), resistance(s), &u);
+                let p = random_point(s, &mut rng);
                 let phase = rng.unit();
                 let welded = release_waveform(&p, t_end, 1.0 / rate, phase, true).unwrap();
                 t.welded += 1;

@@ -7,6 +7,7 @@
 #![allow(dead_code)]
 
 pub mod armature;
+pub mod detect_box;
 pub mod ode;
 
 /// The decay of a coil from `i0` to zero through a constant clamp voltage `vc` in a loop of
