@@ -40,6 +40,18 @@ fn armature_with(preload: &str, rate: &str, law: &str) -> String {
     )
 }
 
+/// The relay of the module docs with the clamp and armature section `clamp_and_armature`.
+fn relay(clamp_and_armature: &str) -> String {
+    design(
+        ("12 V", "11 V", "13 V"),
+        ("19 °C", "21 °C", "0 K"),
+        COIL,
+        SWITCH,
+        clamp_and_armature,
+        "",
+    )
+}
+
 fn analyse(text: &str) -> Report {
     analyse_text(text, "armature.toml", &Options::default()).unwrap_or_else(|e| panic!("{e}"))
 }
@@ -70,14 +82,7 @@ fn number_after(text: &str, before: &str) -> f64 {
 
 #[test]
 fn release_start_matches_the_seated_fall_by_hand_and_sets_the_wait() {
-    let r = analyse(&design(
-        ("12 V", "11 V", "13 V"),
-        ("19 °C", "21 °C", "0 K"),
-        COIL,
-        SWITCH,
-        &armature("0.5 N", "400 N/m"),
-        "",
-    ));
+    let r = analyse(&relay(&armature("0.5 N", "400 N/m")));
     // By hand: every mechanical corner (preload, rate, stroke, g0 at ±10 %, L_open at ±5 %)
     // at the slowest decay (13 V into the coldest, lowest R); the latest release start is the largest
     // τ·ln((I₀ + V_c/R)/(i_rel + V_c/R)).
@@ -141,14 +146,7 @@ fn release_start_matches_the_seated_fall_by_hand_and_sets_the_wait() {
 #[test]
 fn an_armature_nothing_pushes_open_fails_release() {
     // No spring and no load: once seated, nothing opens it (it stays operated).
-    let r = analyse(&design(
-        ("12 V", "11 V", "13 V"),
-        ("19 °C", "21 °C", "0 K"),
-        COIL,
-        SWITCH,
-        &armature("0 N", "0 N/m"),
-        "",
-    ));
+    let r = analyse(&relay(&armature("0 N", "0 N/m")));
     let c = check(&r, "armature_release");
     assert_eq!(c.status, Status::Fail, "{c:?}");
     assert!(
@@ -182,16 +180,7 @@ fn law_table(last_gap_mm: f64, first_l: f64) -> String {
 
 #[test]
 fn a_table_of_the_law_gives_the_law_s_figures() {
-    let run = |law: &str| {
-        analyse(&design(
-            ("12 V", "11 V", "13 V"),
-            ("19 °C", "21 °C", "0 K"),
-            COIL,
-            SWITCH,
-            &armature_with("0.5 N", "400 N/m", law),
-            "",
-        ))
-    };
+    let run = |law: &str| analyse(&relay(&armature_with("0.5 N", "400 N/m", law)));
     // Without the mechanical tolerances: g₀'s axis exists for the law only, so with it the
     // two would differ by more than the interpolation (the supply, the winding, the
     // resistance and the open inductance still vary).
@@ -212,16 +201,7 @@ fn a_table_of_the_law_gives_the_law_s_figures() {
 
 #[test]
 fn a_table_that_contradicts_the_design_is_refused_where_it_is_written() {
-    let text = |law: &str| {
-        design(
-            ("12 V", "11 V", "13 V"),
-            ("19 °C", "21 °C", "0 K"),
-            COIL,
-            SWITCH,
-            &armature_with("0.5 N", "400 N/m", law),
-            "",
-        )
-    };
+    let text = |law: &str| relay(&armature_with("0.5 N", "400 N/m", law));
     let err = |law: &str| {
         analyse_text(&text(law), "armature.toml", &Options::default())
             .map(|_| ())
