@@ -171,7 +171,7 @@ fn detectable(
             out.checks.push(
                 Check::worded(&d.name, "armature_release_detectable", "armature release seen by the ADC", Status::Pass, "detectable", Corner::Stated("every corner".into()))
                     .noted(format!(
-                        "the smallest bump as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts (bump {:.1} … {:.1} mA); with ±{} counts of noise the detector (Polarity::Falling) calls a bump of {} counts release; a welded or stuck-closed armature's plain decay never turns that far; verdict within {} samples{rate}",
+                        "the smallest bump as sampled at {:.0} Hz at any phase: {:.1} mA = {:.0} counts (bump {:.1} … {:.1} mA); with ±{} counts of noise the detector (Polarity::Falling) calls a bump of {} counts release; a welded or stuck-closed armature's plain decay never turns that far; verdict within {} samples{rate}; this needs the ADC to see the coil's current after switch-off, a shunt in series with the coil (or in the clamp's return): a shunt that only the switch's current passes reads zero once it is off",
                         adc.rate.value(), w.sampled_bump_min * 1e3, bump_counts, w.bump.lo * 1e3, w.bump.hi * 1e3, adc.noise_counts, cfg.min_dip, cfg.window
                     )),
             );
